@@ -1,0 +1,26 @@
+import { eq } from 'drizzle-orm'
+import { z } from 'zod'
+import { people } from '../../db/schema'
+import { IdParamsSchema, PersonNameSchema, RoleSchema } from '../../utils/validation'
+
+const BodySchema = z.object({
+  name: PersonNameSchema.optional(),
+  role: RoleSchema.optional(),
+  active: z.boolean({ error: 'must be true or false' }).optional()
+}).strict()
+
+export default defineEventHandler(async (event) => {
+  const actor = await requireRole(event, 'coordinator')
+  const { id } = readParamsAs(event, IdParamsSchema)
+  const changes = await readBodyAs(event, BodySchema)
+  const before = findPersonPublic(id)
+  if (!before) throw notFound('Person')
+  if (id === actor.id && (changes.active === false || (changes.role && changes.role !== 'coordinator'))) {
+    throw createError({ statusCode: 400, message: 'Invalid role: you cannot demote or deactivate yourself', data: { issues: [{ field: changes.active === false ? 'active' : 'role', message: 'not on your own account' }] } })
+  }
+  useDB().transaction((tx) => {
+    tx.update(people).set({ ...changes, updatedAt: new Date() }).where(eq(people.id, id)).run()
+    recordAudit(tx, actor.id, 'person.update', 'person', id, { before, changes })
+  })
+  return findPersonPublic(id)
+})

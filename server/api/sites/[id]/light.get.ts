@@ -1,0 +1,10 @@
+import { IdParamsSchema } from '../../../utils/validation'
+
+export default defineEventHandler(async (event) => {
+  await requireRole(event)
+  const { id } = readParamsAs(event, IdParamsSchema)
+  const q = readQueryAs(event, SiteLightQuerySchema)
+  const site = requireSite(id)
+  const days = computeLightDays({ latitude: site.latitude, longitude: site.longitude, timezone: site.timezone, from: q.from, to: q.to })
+  return { siteId: site.id, latitude: site.latitude, longitude: site.longitude, timezone: site.timezone, days }
+})

@@ -1,0 +1,9 @@
+import { IdParamsSchema } from '../../../utils/validation'
+
+export default defineEventHandler(async (event) => {
+  await requireRole(event)
+  const { id } = readParamsAs(event, IdParamsSchema)
+  const q = readQueryAs(event, SiteSeasonsQuerySchema)
+  const site = requireSite(id)
+  return { siteId: site.id, ...computeSeasons({ latitude: site.latitude, longitude: site.longitude, timezone: site.timezone, year: q.year, minCivilHours: q.minCivilHours }) }
+})

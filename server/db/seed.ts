@@ -1,0 +1,98 @@
+import { sql } from 'drizzle-orm'
+import type { AppDatabase } from '../utils/db'
+import { checkShiftLight } from '../utils/light-check'
+import { addDaysToDate, localDateOf, resolveLocalOrInstant } from '../utils/zoned'
+import { crewMembers, crews, people, shiftAssignees, shifts, sites, unavailability, type NewShift } from './schema'
+
+// The demo scenario: an invented operator, Northwake Field Services, with invented sites at real
+// coordinates and invented people on the .test domain. Demo only: no test relies on these numbers.
+export const DEMO_PASSWORD = 'gloamline-demo'
+
+const SITES = [
+  { name: 'Kvitfjell Ice Camp', latitude: 78.2232, longitude: 15.6267, timezone: 'Arctic/Longyearbyen', elevation: 40, defaultLight: 'civil', notes: 'Glacier-front survey camp. Polar bear watch required off camp.' },
+  { name: 'Ravnvik Pipeline Yard', latitude: 69.6496, longitude: 18.9560, timezone: 'Europe/Oslo', elevation: 12, defaultLight: 'daylight', notes: 'Laydown yard and river crossing works.' },
+  { name: 'Saqqaq Ridge Survey', latitude: 69.2198, longitude: -51.0986, timezone: 'America/Nuuk', elevation: 210, defaultLight: 'daylight', notes: 'Ridge line geophysics; helicopter access only.' },
+  { name: 'Tamarack Creek Mine', latitude: 62.4540, longitude: -135.3570, timezone: 'America/Whitehorse', elevation: 780, defaultLight: 'civil', notes: 'Open pit and haul road; lit work areas by the plant.' },
+  { name: 'Larsen Wharf Line Crew', latitude: 60.3913, longitude: 5.3221, timezone: 'Europe/Oslo', elevation: 5, defaultLight: 'daylight', notes: 'Coastal power line maintenance.' },
+  { name: 'Cape Mawdsley Station', latitude: -77.8460, longitude: 166.6760, timezone: 'Antarctica/McMurdo', elevation: 24, defaultLight: 'any', notes: 'Summer field season, sea-ice route flagging.' }
+] as const
+
+const PEOPLE = [
+  { name: 'Ingrid Halvorsen', email: 'coordinator@gloamline.test', role: 'coordinator' },
+  { name: 'Tomas Reyes', email: 'safety@gloamline.test', role: 'safety' },
+  { name: 'Aputsiaq Berthelsen', email: 'crew@gloamline.test', role: 'crew' },
+  { name: 'Maren Solbakk', email: 'maren.solbakk@gloamline.test', role: 'coordinator' },
+  { name: 'Dev Raman', email: 'dev.raman@gloamline.test', role: 'safety' },
+  { name: 'Liv Aasen', email: 'liv.aasen@gloamline.test', role: 'crew' },
+  { name: 'Kalle Niemi', email: 'kalle.niemi@gloamline.test', role: 'crew' },
+  { name: 'Sofia Marchetti', email: 'sofia.marchetti@gloamline.test', role: 'crew' },
+  { name: 'Jonas Eide', email: 'jonas.eide@gloamline.test', role: 'crew' },
+  { name: 'Nora Tuktu', email: 'nora.tuktu@gloamline.test', role: 'crew' },
+  { name: 'Owen McBride', email: 'owen.mcbride@gloamline.test', role: 'crew' },
+  { name: 'Hanna Lindqvist', email: 'hanna.lindqvist@gloamline.test', role: 'crew' },
+  { name: 'Pita Rangi', email: 'pita.rangi@gloamline.test', role: 'crew' },
+  { name: 'Elias Brandt', email: 'elias.brandt@gloamline.test', role: 'crew' }
+] as const
+
+const CREWS = [
+  { name: 'Rime crew', members: ['crew@gloamline.test', 'liv.aasen@gloamline.test', 'kalle.niemi@gloamline.test', 'jonas.eide@gloamline.test'] },
+  { name: 'Lantern crew', members: ['sofia.marchetti@gloamline.test', 'nora.tuktu@gloamline.test', 'owen.mcbride@gloamline.test', 'crew@gloamline.test'] },
+  { name: 'Bearing crew', members: ['hanna.lindqvist@gloamline.test', 'pita.rangi@gloamline.test', 'elias.brandt@gloamline.test'] }
+]
+
+// per site: the daily pattern of work (local start hour, hours, task, requirement, crew index)
+const PATTERNS: Record<string, [number, number, string, 'daylight' | 'civil' | 'any', number][]> = {
+  'Kvitfjell Ice Camp': [[9, 4, 'Snow-machine route check', 'civil', 0], [13, 3, 'Weather mast service', 'any', 0]],
+  'Ravnvik Pipeline Yard': [[8, 6, 'Pipe stringing', 'daylight', 1], [15, 3, 'Crossing inspection', 'civil', 1]],
+  'Saqqaq Ridge Survey': [[10, 4, 'Magnetometer traverse', 'daylight', 2]],
+  'Tamarack Creek Mine': [[7, 10, 'Haul road grading', 'civil', 2], [19, 8, 'Pit lighting maintenance', 'any', 1]],
+  'Larsen Wharf Line Crew': [[8, 7, 'Line patrol', 'daylight', 0]],
+  'Cape Mawdsley Station': [[8, 9, 'Sea-ice route flagging', 'daylight', 2]]
+}
+
+/** True when the database holds no people yet: seeding never touches a database with data. */
+export function isDatabaseEmpty(db: AppDatabase) {
+  const row = db.select({ n: sql<number>`count(*)` }).from(people).get()
+  return (row?.n ?? 0) === 0
+}
+
+/** Seeds the demo scenario around `now` in one transaction; returns false when there was data already. */
+export function seedDemoScenario(db: AppDatabase, passwordHash: string, now = Date.now()): boolean {
+  if (!isDatabaseEmpty(db)) return false
+  db.transaction((tx) => {
+    const personRows = tx.insert(people).values(PEOPLE.map(p => ({ ...p, passwordHash }))).returning().all()
+    const idByEmail = new Map(personRows.map(p => [p.email, p.id]))
+    const siteRows = tx.insert(sites).values(SITES.map(s => ({ ...s }))).returning().all()
+    const crewRows = tx.insert(crews).values(CREWS.map(c => ({ name: c.name }))).returning().all()
+    const crewPeople = CREWS.map(c => c.members.map(email => idByEmail.get(email)!))
+    crewRows.forEach((crew, i) => tx.insert(crewMembers).values(crewPeople[i]!.map(personId => ({ crewId: crew.id, personId }))).run())
+    const creator = idByEmail.get('coordinator@gloamline.test')!
+    for (const site of siteRows) {
+      const today = localDateOf(now, site.timezone)
+      for (let offset = -14; offset <= 21; offset++) {
+        const date = addDaysToDate(today, offset)
+        const weekday = new Date(`${date}T12:00:00Z`).getUTCDay()
+        if (weekday === 0) continue
+        PATTERNS[site.name]!.forEach(([hour, hours, title, light, crewIndex], n) => {
+          // rotate crew members so nobody works every pattern every day
+          const members = crewPeople[crewIndex]!.filter((_, k) => (k + offset + n) % 3 !== 0)
+          const startMs = resolveLocalOrInstant(`${date}T${String(hour).padStart(2, '0')}:00`, site.timezone).ms
+          const endMs = startMs + hours * 3_600_000
+          const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: light })
+          const values: NewShift = {
+            siteId: site.id, title, light, startAt: new Date(startMs), endAt: new Date(endMs),
+            minutesBelow: check.minutesBelow, flagged: check.flagged,
+            reviewState: check.flagged ? 'pending' : 'not-needed', createdBy: creator
+          }
+          const row = tx.insert(shifts).values(values).returning({ id: shifts.id }).get()
+          if (members.length) tx.insert(shiftAssignees).values(members.map(personId => ({ shiftId: row.id, personId }))).run()
+        })
+      }
+    }
+    tx.insert(unavailability).values([
+      { personId: idByEmail.get('kalle.niemi@gloamline.test')!, startAt: new Date(now + 2 * 86_400_000), endAt: new Date(now + 6 * 86_400_000), reason: 'Leave' },
+      { personId: idByEmail.get('owen.mcbride@gloamline.test')!, startAt: new Date(now + 86_400_000), endAt: new Date(now + 2 * 86_400_000), reason: 'Travel day' }
+    ]).run()
+  })
+  return true
+}

@@ -1,0 +1,46 @@
+import { existsSync, mkdirSync } from 'node:fs'
+import { dirname, join, resolve } from 'node:path'
+import Database from 'better-sqlite3'
+import { drizzle, type BetterSQLite3Database } from 'drizzle-orm/better-sqlite3'
+import { migrate } from 'drizzle-orm/better-sqlite3/migrator'
+import * as schema from '../db/schema'
+
+export type AppDatabase = BetterSQLite3Database<typeof schema> & { $client: Database.Database }
+
+let current: AppDatabase | undefined
+
+/** Opens a SQLite file with WAL and foreign keys on, wrapped in Drizzle with the app's schema. */
+export function openDatabase(path: string): AppDatabase {
+  if (path !== ':memory:') mkdirSync(dirname(resolve(path)), { recursive: true })
+  const sqlite = new Database(path)
+  sqlite.pragma('journal_mode = WAL')
+  sqlite.pragma('foreign_keys = ON')
+  sqlite.pragma('busy_timeout = 5000')
+  return drizzle(sqlite, { schema }) as AppDatabase
+}
+
+/** Finds the migrations folder: env override, next to the built server, then the source tree. */
+export function findMigrationsDir(): string {
+  const candidates = [
+    process.env.MIGRATIONS_DIR,
+    process.argv[1] ? join(dirname(process.argv[1]), 'drizzle') : undefined,
+    resolve('.output/server/drizzle'),
+    resolve('drizzle')
+  ].filter((dir): dir is string => Boolean(dir))
+  const found = candidates.find(dir => existsSync(join(dir, 'meta', '_journal.json')))
+  if (!found) throw new Error(`No migrations folder found (looked in ${candidates.join(', ')})`)
+  return found
+}
+
+/** Applies every pending drizzle-kit migration. */
+export function applyMigrations(db: AppDatabase, dir = findMigrationsDir()) {
+  migrate(db, { migrationsFolder: dir })
+}
+
+/** The process-wide database handle, opened on first use from DATABASE_PATH. */
+export function useDB(): AppDatabase {
+  if (!current) current = openDatabase(process.env.DATABASE_PATH || '.data/gloamline.sqlite')
+  return current
+}
+
+export { schema as tables }

@@ -1,0 +1,573 @@
+// The light engine: splits the local days of a site into the bands of DESIGN.md ("The light model")
+// from suncalc's position function, by sampling the geometric altitude on a UTC grid, locating every
+// daily highest and lowest point (Brent minimisation) and refining every threshold crossing with
+// Brent's method to under a second. Pure TypeScript: no framework imports.
+import {
+  BAND_KINDS_ASCENDING,
+  BAND_THRESHOLDS_ASCENDING_DEG,
+  MAX_LIGHT_RANGE_DAYS,
+  RISING_EVENT_BY_THRESHOLD,
+  SETTING_EVENT_BY_THRESHOLD,
+  type BandKind,
+  type DayStatus,
+  type LightDay,
+  type LightDayMs,
+  type LightPeriodMs,
+  type SunEventMs
+} from '../../shared/light'
+import {
+  SUNCALC_HORIZON_REFRACTION_DEG,
+  convertApparentToGeometric,
+  minimizeBrent,
+  normalizeSunLatitude,
+  normalizeSunLongitude,
+  sampleSunAltitude,
+  sampleSunApparentAltitude,
+  sampleSunPosition,
+  solveRootBrent
+} from './sun'
+
+const MINUTE_MS = 60_000
+const DAY_MS = 86_400_000
+
+// Grid spacing of the altitude samples. The altitude is a smooth curve with one high and one low point
+// per ~24 h; a 60-minute grid always shows each of them as a local extreme of the samples, and the
+// extremum refinement then finds the true peak, so a grazing dip between two samples is not missed.
+export const CFG = { step: Number(process.env.STEP ?? 60) * MINUTE_MS, tol: Number(process.env.TOL ?? 2000), rtol: Number(process.env.RTOL ?? 500) }
+let GRID_STEP_MS = CFG.step
+// Brent's method stops when the crossing is bracketed within this width: every reported crossing is
+// within 0.5 s of the root of suncalc's geometric altitude minus the threshold, before rounding to 1 s.
+const ROOT_TOLERANCE_MS = 500
+// The peak time only moves the peak altitude by ~1e-7° per second here, so seconds are plenty.
+const EXTREMUM_TOLERANCE_MS = 2_000
+const THRESHOLDS = BAND_THRESHOLDS_ASCENDING_DEG
+
+interface TraceCrossing {
+  ms: number
+  /** Index into BAND_THRESHOLDS_ASCENDING_DEG. */
+  level: number
+  rising: boolean
+  azimuth: number
+}
+
+interface TraceExtremum {
+  ms: number
+  /** Geometric altitude, degrees. */
+  altitude: number
+  isMax: boolean
+}
+
+interface SunTrace {
+  /** Band index (0 night … 4 day) at the first grid point, before every crossing. */
+  startBand: number
+  crossings: TraceCrossing[]
+  extrema: TraceExtremum[]
+}
+
+export interface LightDaysInput {
+  latitude: number
+  longitude: number
+  timezone: string
+  /** First local date, YYYY-MM-DD. */
+  from: string
+  /** Last local date, YYYY-MM-DD, inclusive. */
+  to: string
+}
+
+// The searches run on suncalc's apparent altitude. Every threshold is below the horizon, where suncalc
+// adds the constant SUNCALC_HORIZON_REFRACTION_DEG, so geometric h ≥ T exactly when apparent ≥ T + that
+// constant, and both have the same crossing instants. Apparent altitude is a strictly increasing
+// function of geometric altitude, so the highest and lowest points are the same instants too; only
+// the reported extremes are converted back (convertApparentToGeometric).
+const APPARENT_THRESHOLDS = THRESHOLDS.map(t => t + SUNCALC_HORIZON_REFRACTION_DEG)
+
+function bandIndexOfApparent(apparent: number): number {
+  let band = 0
+  while (band < APPARENT_THRESHOLDS.length && apparent >= APPARENT_THRESHOLDS[band]!) band++
+  return band
+}
+
+// Band index after a crossing: rising through threshold k enters band k + 1, setting through it band k.
+function bandAfterCrossing(crossing: TraceCrossing): number {
+  return crossing.rising ? crossing.level + 1 : crossing.level
+}
+
+// The site and threshold of the current search. Module state instead of closures keeps the hot loop
+// free of allocations; the engine is synchronous, so no two traces interleave.
+const SEARCH = { latitude: 0, longitude: 0, threshold: 0, lastMs: NaN, lastAzimuth: 0 }
+
+export const DBG = { grid: 0, ext: 0, root: 0 }
+function searchAltitude(ms: number): number {
+  DBG.ext++
+  return sampleSunApparentAltitude(ms, SEARCH.latitude, SEARCH.longitude)
+}
+
+function searchNegatedAltitude(ms: number): number {
+  DBG.ext++
+  return -sampleSunApparentAltitude(ms, SEARCH.latitude, SEARCH.longitude)
+}
+
+// Apparent altitude minus the current threshold, remembering the azimuth of the last evaluation.
+function searchAboveThreshold(ms: number): number {
+  DBG.root++
+  const position = sampleSunPosition(ms, SEARCH.latitude, SEARCH.longitude)
+  SEARCH.lastMs = ms
+  SEARCH.lastAzimuth = position.azimuth
+  return position.apparent - SEARCH.threshold
+}
+
+function sampleGrid(firstMs: number, count: number): Float64Array {
+  const values = new Float64Array(count)
+  for (let i = 0; i < count; i++) values[i] = searchAltitude(firstMs + i * GRID_STEP_MS)
+  return values
+}
+
+// Refines every local extreme of the samples to the true highest or lowest point near it.
+function refineExtrema(firstMs: number, values: Float64Array): { ms: number, apparent: number, isMax: boolean }[] {
+  const extrema: { ms: number, apparent: number, isMax: boolean }[] = []
+  for (let i = 1; i < values.length - 1; i++) {
+    const v = values[i]!
+    const isMax = v > values[i - 1]! && v >= values[i + 1]!
+    const isMin = v < values[i - 1]! && v <= values[i + 1]!
+    if (!isMax && !isMin) continue
+    const t = firstMs + i * GRID_STEP_MS
+    const sign = isMax ? -1 : 1
+    const found = minimizeBrent(isMax ? searchNegatedAltitude : searchAltitude, t - GRID_STEP_MS, t + GRID_STEP_MS, t,
+      sign * v, CFG.tol, 60, sign * values[i - 1]!, sign * values[i + 1]!)
+    extrema.push({ ms: found.x, apparent: isMax ? -found.fx : found.fx, isMax })
+  }
+  return extrema.sort((a, b) => a.ms - b.ms)
+}
+
+// Grid samples and refined extrema merged in time order: between two neighbours the altitude is monotone.
+function mergeSamples(firstMs: number, values: Float64Array, extrema: { ms: number, apparent: number }[]) {
+  const size = values.length + extrema.length
+  const times = new Float64Array(size)
+  const alts = new Float64Array(size)
+  let g = 0
+  let x = 0
+  for (let k = 0; k < size; k++) {
+    const gridMs = firstMs + g * GRID_STEP_MS
+    if (x < extrema.length && (g >= values.length || extrema[x]!.ms < gridMs)) {
+      times[k] = extrema[x]!.ms
+      alts[k] = extrema[x]!.apparent
+      x++
+    } else {
+      times[k] = gridMs
+      alts[k] = values[g]!
+      g++
+    }
+  }
+  return { times, alts }
+}
+
+// Finds the crossings of every threshold between two neighbouring samples (the altitude is monotone there).
+function findCrossingsBetween(t0: number, a0: number, t1: number, a1: number, out: TraceCrossing[]) {
+  const b0 = bandIndexOfApparent(a0)
+  const b1 = bandIndexOfApparent(a1)
+  if (b0 === b1) return
+  const rising = b1 > b0
+  let lo = t0
+  let loAlt = a0
+  for (let n = 0; n < Math.abs(b1 - b0); n++) {
+    const level = rising ? b0 + n : b0 - 1 - n
+    const threshold = APPARENT_THRESHOLDS[level]!
+    SEARCH.threshold = threshold
+    SEARCH.lastMs = NaN
+    const root = solveRootBrent(searchAboveThreshold, lo, t1, loAlt - threshold, a1 - threshold, CFG.rtol)
+    // The last evaluation lies inside the final bracket (≤ 1 s away); re-sample only if Brent took none.
+    const azimuth = Math.abs(SEARCH.lastMs - root) <= 2 * ROOT_TOLERANCE_MS
+      ? SEARCH.lastAzimuth
+      : sampleSunPosition(root, SEARCH.latitude, SEARCH.longitude).azimuth
+    out.push({ ms: Math.round(root / 1000) * 1000, level, rising, azimuth })
+    // The next threshold lies beyond this one: narrow its bracket (its sign is certain, its size close).
+    lo = root
+    loAlt = threshold
+  }
+}
+
+/** Samples and searches the sun over [fromMs, toMs] (plus a margin), returning every crossing and extremum. */
+function traceSun(latitude: number, longitude: number, fromMs: number, toMs: number): SunTrace {
+  GRID_STEP_MS = CFG.step
+  SEARCH.latitude = latitude
+  SEARCH.longitude = longitude
+  const firstMs = Math.floor(fromMs / GRID_STEP_MS) * GRID_STEP_MS - 2 * GRID_STEP_MS
+  const lastMs = Math.ceil(toMs / GRID_STEP_MS) * GRID_STEP_MS + 2 * GRID_STEP_MS
+  const count = Math.round((lastMs - firstMs) / GRID_STEP_MS) + 1
+  const values = sampleGrid(firstMs, count)
+  const found = refineExtrema(firstMs, values)
+  const { times, alts } = mergeSamples(firstMs, values, found)
+  const crossings: TraceCrossing[] = []
+  for (let k = 1; k < times.length; k++) findCrossingsBetween(times[k - 1]!, alts[k - 1]!, times[k]!, alts[k]!, crossings)
+  const extrema = found.map(x => ({ ms: x.ms, altitude: convertApparentToGeometric(x.apparent), isMax: x.isMax }))
+  return { startBand: bandIndexOfApparent(values[0]!), crossings, extrema }
+}
+
+// Appends a band from atMs, merging with the previous period when the kind repeats or no time passed.
+function appendBand(periods: LightPeriodMs[], kind: BandKind, atMs: number, endMs: number) {
+  const last = periods[periods.length - 1]
+  if (last && last.kind === kind) return
+  if (last && last.startMs >= atMs) {
+    periods.pop()
+    appendBand(periods, kind, last.startMs, endMs)
+    return
+  }
+  if (last) last.endMs = atMs
+  periods.push({ kind, startMs: atMs, endMs })
+}
+
+/** The light bands covering the UTC instant range [startMs, endMs) at a place (no time zone needed). */
+export function computeLightPeriodsInRange(latitude: number, longitude: number, startMs: number, endMs: number): LightPeriodMs[] {
+  const lat = normalizeSunLatitude(latitude)
+  const lon = normalizeSunLongitude(longitude)
+  if (!Number.isFinite(startMs) || !Number.isFinite(endMs) || endMs < startMs) {
+    throw new RangeError('endMs must be a finite instant at or after startMs')
+  }
+  if (endMs - startMs > MAX_LIGHT_RANGE_DAYS * DAY_MS) throw new RangeError(`range must be at most ${MAX_LIGHT_RANGE_DAYS} days`)
+  if (endMs === startMs) return []
+  const trace = traceSun(lat, lon, startMs, endMs)
+  let band = trace.startBand
+  let i = 0
+  for (; i < trace.crossings.length && trace.crossings[i]!.ms <= startMs; i++) band = bandAfterCrossing(trace.crossings[i]!)
+  const periods: LightPeriodMs[] = [{ kind: BAND_KINDS_ASCENDING[band]!, startMs, endMs }]
+  for (; i < trace.crossings.length && trace.crossings[i]!.ms < endMs; i++) {
+    const crossing = trace.crossings[i]!
+    appendBand(periods, BAND_KINDS_ASCENDING[bandAfterCrossing(crossing)]!, crossing.ms, endMs)
+  }
+  return periods
+}
+
+// ---------------------------------------------------------------------------------------------
+// Time zones. Offsets come from Intl (the IANA database bundled with Node). Intl is slow (~2 µs a
+// call), so each zone's offset changes are found once per UTC year — one probe a day, then a bisection
+// to the second where the offset differs — and cached; local midnights and ISO strings are then pure
+// arithmetic. (Assumes a zone never changes its offset twice within 24 h, true of the tz data.)
+
+interface ZoneYear {
+  startOffsetMs: number
+  /** Instants at which the offset changes, with the offset from then on. */
+  changes: { ms: number, offsetMs: number }[]
+}
+
+interface ZoneTimeline {
+  /** Segment i runs from starts[i] (−∞ for i = 0) to starts[i + 1] with offsets[i]. */
+  starts: number[]
+  offsets: number[]
+}
+
+const ZONE_FORMATTERS = new Map<string, Intl.DateTimeFormat>()
+const ZONE_YEARS = new Map<string, ZoneYear>()
+const MAX_CACHED_ZONE_YEARS = 2_000
+const ZONE_PROBE_DATE = new Date(0)
+const WALL_CLOCK_RE = /^(\d+)\/(\d+)\/(\d+),? (\d+):(\d+):(\d+)$/
+
+/** True for an IANA time zone name Intl knows (e.g. Europe/Oslo, UTC, Etc/GMT+2); false for offsets like +02:00. */
+export function isValidTimeZone(tz: string): boolean {
+  if (typeof tz !== 'string' || tz.length === 0 || tz.length > 64) return false
+  if (ZONE_FORMATTERS.has(tz)) return true
+  // Newer Intl versions accept bare offsets; those are not IANA zones and carry no daylight-saving rules.
+  if (/^[+-]/.test(tz) || /\s/.test(tz)) return false
+  try {
+    new Intl.DateTimeFormat('en-US', { timeZone: tz })
+    return true
+  } catch {
+    return false
+  }
+}
+
+function zoneFormatter(zone: string): Intl.DateTimeFormat {
+  let formatter = ZONE_FORMATTERS.get(zone)
+  if (!formatter) {
+    if (!isValidTimeZone(zone)) throw new RangeError(`timezone must be an IANA time zone name, got "${zone}"`)
+    formatter = new Intl.DateTimeFormat('en-US', {
+      timeZone: zone, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric',
+      hour: 'numeric', minute: 'numeric', second: 'numeric'
+    })
+    ZONE_FORMATTERS.set(zone, formatter)
+  }
+  return formatter
+}
+
+function probeZoneOffsetMs(zone: string, ms: number): number {
+  const whole = Math.floor(ms / 1000) * 1000
+  ZONE_PROBE_DATE.setTime(whole)
+  const match = WALL_CLOCK_RE.exec(zoneFormatter(zone).format(ZONE_PROBE_DATE))
+  if (!match) throw new RangeError(`cannot read the wall clock of ${zone}`)
+  const [, mo, d, y, h, mi, s] = match.map(Number) as number[]
+  return Date.UTC(y!, mo! - 1, d!, h!, mi!, s!) - whole
+}
+
+// The second at which the offset switches from its value at lo to its value at hi (lo < hi).
+function bisectZoneChange(zone: string, lo: number, hi: number, loOffset: number): number {
+  while (hi - lo > 1000) {
+    const mid = Math.floor((lo + hi) / 2000) * 1000
+    if (mid <= lo) break
+    if (probeZoneOffsetMs(zone, mid) === loOffset) lo = mid
+    else hi = mid
+  }
+  return hi
+}
+
+function loadZoneYear(zone: string, year: number): ZoneYear {
+  const key = `${zone}|${year}`
+  const cached = ZONE_YEARS.get(key)
+  if (cached) return cached
+  const startMs = Date.UTC(year, 0, 1)
+  const endMs = Date.UTC(year + 1, 0, 1)
+  const startOffsetMs = probeZoneOffsetMs(zone, startMs)
+  const changes: ZoneYear['changes'] = []
+  let prevMs = startMs
+  let prevOffset = startOffsetMs
+  for (let ms = startMs + DAY_MS; prevMs < endMs; ms = Math.min(ms + DAY_MS, endMs)) {
+    const offset = probeZoneOffsetMs(zone, ms)
+    if (offset !== prevOffset) changes.push({ ms: bisectZoneChange(zone, prevMs, ms, prevOffset), offsetMs: offset })
+    prevMs = ms
+    prevOffset = offset
+  }
+  if (ZONE_YEARS.size >= MAX_CACHED_ZONE_YEARS) ZONE_YEARS.clear()
+  const result = { startOffsetMs, changes }
+  ZONE_YEARS.set(key, result)
+  return result
+}
+
+function buildZoneTimeline(zone: string, fromMs: number, toMs: number): ZoneTimeline {
+  const firstYear = new Date(fromMs).getUTCFullYear()
+  const lastYear = new Date(toMs).getUTCFullYear()
+  const starts = [-Infinity]
+  const offsets = [loadZoneYear(zone, firstYear).startOffsetMs]
+  for (let year = firstYear; year <= lastYear; year++) {
+    for (const change of loadZoneYear(zone, year).changes) {
+      if (change.offsetMs === offsets[offsets.length - 1]) continue
+      starts.push(change.ms)
+      offsets.push(change.offsetMs)
+    }
+  }
+  return { starts, offsets }
+}
+
+function zoneOffsetAt(timeline: ZoneTimeline, ms: number): number {
+  let i = timeline.starts.length - 1
+  while (i > 0 && timeline.starts[i]! > ms) i--
+  return timeline.offsets[i]!
+}
+
+// First instant at which the zone's wall clock shows at least wallMs (a local midnight written as UTC).
+// In a spring-forward gap over midnight that is the change itself; when midnight happens twice, the first.
+function findZoneWallInstant(timeline: ZoneTimeline, wallMs: number): number {
+  let best = Infinity
+  for (let i = 0; i < timeline.starts.length; i++) {
+    const candidate = Math.max(timeline.starts[i]!, wallMs - timeline.offsets[i]!)
+    const next = i + 1 < timeline.starts.length ? timeline.starts[i + 1]! : Infinity
+    if (candidate < next && candidate < best) best = candidate
+  }
+  return best
+}
+
+const PAD2 = Array.from({ length: 100 }, (_, i) => String(i).padStart(2, '0'))
+
+// Proleptic Gregorian date of a day count since 1970-01-01 (H. Hinnant, "chrono-compatible low-level date algorithms").
+function civilFromDays(days: number): [number, number, number] {
+  const z = days + 719468
+  const era = Math.floor(z / 146097)
+  const doe = z - era * 146097
+  const yoe = Math.floor((doe - Math.floor(doe / 1460) + Math.floor(doe / 36524) - Math.floor(doe / 146096)) / 365)
+  const doy = doe - (365 * yoe + Math.floor(yoe / 4) - Math.floor(yoe / 100))
+  const mp = Math.floor((5 * doy + 2) / 153)
+  const d = doy - Math.floor((153 * mp + 2) / 5) + 1
+  const m = mp < 10 ? mp + 3 : mp - 9
+  return [yoe + era * 400 + (m <= 2 ? 1 : 0), m, d]
+}
+
+function formatUtcDate(wallMs: number): string {
+  const [y, m, d] = civilFromDays(Math.floor(wallMs / DAY_MS))
+  return `${y}-${PAD2[m]}-${PAD2[d]}`
+}
+
+function formatOffset(offsetMs: number): string {
+  const minutes = Math.round(offsetMs / MINUTE_MS)
+  const abs = Math.abs(minutes)
+  return `${minutes < 0 ? '-' : '+'}${PAD2[Math.floor(abs / 60)]}:${PAD2[abs % 60]}`
+}
+
+function formatWithTimeline(timeline: ZoneTimeline, ms: number): string {
+  const whole = Math.round(ms / 1000) * 1000
+  const offsetMs = zoneOffsetAt(timeline, whole)
+  const local = whole + offsetMs
+  const days = Math.floor(local / DAY_MS)
+  const secs = Math.round((local - days * DAY_MS) / 1000)
+  return `${formatUtcDate(local)}T${PAD2[Math.floor(secs / 3600)]}:${PAD2[Math.floor(secs / 60) % 60]}:${PAD2[secs % 60]}${formatOffset(offsetMs)}`
+}
+
+/** An instant as ISO 8601 with the zone's offset at that instant, to the second (e.g. 2026-12-01T09:12:34+01:00). */
+export function formatInstantInZone(ms: number, zone: string): string {
+  return formatWithTimeline(buildZoneTimeline(zone, ms - DAY_MS, ms + DAY_MS), ms)
+}
+
+/** Parses a YYYY-MM-DD local date to its midnight written as a UTC instant; throws naming the field. */
+export function parseLocalDateToWallMs(value: string, field: string): number {
+  const match = /^(\d{4})-(\d{2})-(\d{2})$/.exec(value)
+  const wall = match ? Date.UTC(Number(match[1]), Number(match[2]) - 1, Number(match[3])) : NaN
+  if (!match || formatUtcDate(wall) !== value) throw new RangeError(`${field} must be a date as YYYY-MM-DD, got "${value}"`)
+  const year = Number(match[1])
+  // suncalc's ΔT fit and the position series are meant for roughly 1900–2150.
+  if (year < 1901 || year > 2149) throw new RangeError(`${field} must be between 1901 and 2149`)
+  return wall
+}
+
+/** Adds whole days to a YYYY-MM-DD local date. */
+export function shiftLocalDate(date: string, days: number): string {
+  return formatUtcDate(parseLocalDateToWallMs(date, 'date') + days * DAY_MS)
+}
+
+// ---------------------------------------------------------------------------------------------
+// Cutting the trace into local days.
+
+interface DayCursor {
+  band: number
+  crossing: number
+  extremum: number
+}
+
+function roundTo(value: number, places: number): number {
+  const f = 10 ** places
+  return Math.round(value * f) / f
+}
+
+// Highest and lowest altitude of [startMs, endMs): the refined extremes inside it, or an end point.
+function summarizeAltitudes(trace: SunTrace, cursor: DayCursor, startMs: number, endMs: number, startAlt: number, endAlt: number) {
+  let maxAlt = startAlt
+  let maxMs = startMs
+  let minAlt = Math.min(startAlt, endAlt)
+  if (endAlt > maxAlt) {
+    maxAlt = endAlt
+    maxMs = endMs - 1000 // the sun is still climbing at midnight: report the day's last second
+  }
+  while (cursor.extremum < trace.extrema.length && trace.extrema[cursor.extremum]!.ms < startMs) cursor.extremum++
+  for (let i = cursor.extremum; i < trace.extrema.length && trace.extrema[i]!.ms < endMs; i++) {
+    const x = trace.extrema[i]!
+    if (x.altitude > maxAlt) {
+      maxAlt = x.altitude
+      maxMs = Math.round(x.ms / 1000) * 1000
+    }
+    if (x.altitude < minAlt) minAlt = x.altitude
+  }
+  return { maxAlt, maxMs, minAlt }
+}
+
+function classifyDay(periods: LightPeriodMs[]): { status: DayStatus, dayMs: number, civilMs: number } {
+  let dayMs = 0
+  let civilMs = 0
+  for (const p of periods) {
+    if (p.kind === 'day') dayMs += p.endMs - p.startMs
+    if (p.kind === 'day' || p.kind === 'civil') civilMs += p.endMs - p.startMs
+  }
+  const status: DayStatus = periods.length === 1 && periods[0]!.kind === 'day'
+    ? 'midnight-sun'
+    : dayMs === 0 ? 'polar-night' : 'rises-and-sets'
+  return { status, dayMs, civilMs }
+}
+
+function toSunEvent(crossing: TraceCrossing): SunEventMs {
+  const azimuth = roundTo(crossing.azimuth, 1)
+  return {
+    type: crossing.rising ? RISING_EVENT_BY_THRESHOLD[crossing.level]! : SETTING_EVENT_BY_THRESHOLD[crossing.level]!,
+    atMs: crossing.ms,
+    azimuth: azimuth >= 360 ? 0 : azimuth
+  }
+}
+
+// Periods and events of one local day [startMs, endMs); the cursor carries the band across days.
+function cutDay(trace: SunTrace, cursor: DayCursor, startMs: number, endMs: number) {
+  const events: SunEventMs[] = []
+  const { crossings } = trace
+  for (; cursor.crossing < crossings.length && crossings[cursor.crossing]!.ms <= startMs; cursor.crossing++) {
+    const crossing = crossings[cursor.crossing]!
+    cursor.band = bandAfterCrossing(crossing)
+    if (crossing.ms === startMs) events.push(toSunEvent(crossing))
+  }
+  const periods: LightPeriodMs[] = [{ kind: BAND_KINDS_ASCENDING[cursor.band]!, startMs, endMs }]
+  for (; cursor.crossing < crossings.length && crossings[cursor.crossing]!.ms < endMs; cursor.crossing++) {
+    const crossing = crossings[cursor.crossing]!
+    cursor.band = bandAfterCrossing(crossing)
+    events.push(toSunEvent(crossing))
+    appendBand(periods, BAND_KINDS_ASCENDING[cursor.band]!, crossing.ms, endMs)
+  }
+  return { periods, events }
+}
+
+function validateDaysInput(input: LightDaysInput, maxDays: number) {
+  const latitude = normalizeSunLatitude(input.latitude)
+  const longitude = normalizeSunLongitude(input.longitude)
+  if (!isValidTimeZone(input.timezone)) throw new RangeError(`timezone must be an IANA time zone name, got "${input.timezone}"`)
+  const fromWall = parseLocalDateToWallMs(input.from, 'from')
+  const toWall = parseLocalDateToWallMs(input.to, 'to')
+  const dayCount = Math.round((toWall - fromWall) / DAY_MS) + 1
+  if (dayCount < 1) throw new RangeError('to must be on or after from')
+  if (dayCount > maxDays) throw new RangeError(`from–to must cover at most ${maxDays} days`)
+  return { latitude, longitude, fromWall, dayCount }
+}
+
+function computeDaysWithTimeline(input: LightDaysInput, maxDays: number) {
+  const { latitude, longitude, fromWall, dayCount } = validateDaysInput(input, maxDays)
+  const timeline = buildZoneTimeline(input.timezone, fromWall - 2 * DAY_MS, fromWall + (dayCount + 2) * DAY_MS)
+  const bounds = new Float64Array(dayCount + 1)
+  const boundAlts = new Float64Array(dayCount + 1)
+  for (let j = 0; j <= dayCount; j++) {
+    bounds[j] = findZoneWallInstant(timeline, fromWall + j * DAY_MS)
+    boundAlts[j] = sampleSunAltitude(bounds[j]!, latitude, longitude)
+  }
+  const trace = traceSun(latitude, longitude, bounds[0]!, bounds[dayCount]!)
+  const cursor: DayCursor = { band: trace.startBand, crossing: 0, extremum: 0 }
+  const days: LightDayMs[] = []
+  for (let j = 0; j < dayCount; j++) {
+    const startMs = bounds[j]!
+    const endMs = bounds[j + 1]!
+    const { periods, events } = cutDay(trace, cursor, startMs, endMs)
+    const { maxAlt, maxMs, minAlt } = summarizeAltitudes(trace, cursor, startMs, endMs, boundAlts[j]!, boundAlts[j + 1]!)
+    const { status, dayMs, civilMs } = classifyDay(periods)
+    days.push({
+      date: formatUtcDate(fromWall + j * DAY_MS), startMs, endMs, periods, events, solarNoonMs: maxMs,
+      maxAltitude: roundTo(maxAlt, 2), minAltitude: roundTo(minAlt, 2),
+      daylightMinutes: Math.round(dayMs / MINUTE_MS), civilLightMinutes: Math.round(civilMs / MINUTE_MS), status
+    })
+  }
+  return { days, timeline }
+}
+
+/**
+ * The light of each local day from..to (inclusive) as epoch milliseconds: periods partition each day
+ * from local midnight to the next; events are the threshold crossings in time order.
+ * `maxDays` (default 366) may be raised to 800 for season scans.
+ */
+export function computeLightDaysMs(input: LightDaysInput, options: { maxDays?: number } = {}): LightDayMs[] {
+  return computeDaysWithTimeline(input, Math.min(options.maxDays ?? MAX_LIGHT_RANGE_DAYS, 800)).days
+}
+
+/**
+ * The light of each local day from..to (inclusive, at most 366 days) with ISO 8601 instants in the
+ * site zone's offset. Minutes are whole minutes (rounded); altitudes are geometric, to 0.01°.
+ */
+export function computeLightDays(input: LightDaysInput): LightDay[] {
+  const { days, timeline } = computeDaysWithTimeline(input, MAX_LIGHT_RANGE_DAYS)
+  return days.map((day) => {
+    const iso = (ms: number) => formatWithTimeline(timeline, ms)
+    const periods = day.periods.map(p => ({ kind: p.kind, start: iso(p.startMs), end: '' }))
+    for (let i = 0; i < periods.length; i++) periods[i]!.end = i + 1 < periods.length ? periods[i + 1]!.start : iso(day.endMs)
+    return {
+      date: day.date,
+      periods,
+      events: day.events.map(e => ({ type: e.type, at: iso(e.atMs), azimuth: e.azimuth })),
+      solarNoon: iso(day.solarNoonMs),
+      maxAltitude: day.maxAltitude,
+      minAltitude: day.minAltitude,
+      daylightMinutes: day.daylightMinutes,
+      civilLightMinutes: day.civilLightMinutes,
+      status: day.status
+    }
+  })
+}
+
+/** Drops the cached time-zone offset tables (for benchmarks that measure cold starts). */
+export function clearTimeZoneCache() {
+  ZONE_YEARS.clear()
+}

@@ -1,0 +1,40 @@
+import { z } from 'zod'
+
+export const IdParamsSchema = z.object({ id: z.coerce.number().int().positive() })
+
+/** A calendar date YYYY-MM-DD that exists (2026-02-30 is refused). */
+export const LocalDateSchema = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'expected a date as YYYY-MM-DD').refine((value) => {
+  const [y, m, d] = value.split('-').map(Number) as [number, number, number]
+  const date = new Date(Date.UTC(y, m - 1, d))
+  return date.getUTCFullYear() === y && date.getUTCMonth() === m - 1 && date.getUTCDate() === d
+}, 'no such date')
+
+/** An IANA time zone name the runtime knows. */
+export const TimeZoneSchema = z.string().min(1, 'required').max(64).refine((tz) => {
+  if (!/^[A-Za-z_]+(?:\/[A-Za-z0-9_+-]+)*$/.test(tz)) return false
+  try {
+    new Intl.DateTimeFormat('en', { timeZone: tz })
+    return true
+  }
+  catch {
+    return false
+  }
+}, 'not an IANA time zone name')
+
+/** An ISO 8601 instant with an offset or Z. */
+export const InstantSchema = z.string().regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d{1,3})?)?(Z|[+-]\d{2}:?\d{2})$/, 'expected an ISO 8601 instant with an offset')
+  .refine(value => !Number.isNaN(Date.parse(value)), 'not a valid instant')
+
+/** A finite number in [min, max], given as a number or (from a query string) a non-empty numeric string. */
+export function numberBetween(min: number, max: number) {
+  return z.union([z.number(), z.string().trim().min(1, 'required')], { error: 'expected a number' })
+    .transform(value => Number(value))
+    .pipe(z.number({ error: 'expected a number' }).min(min, `must be between ${min} and ${max}`).max(max, `must be between ${min} and ${max}`))
+}
+
+export const LatitudeSchema = numberBetween(-90, 90)
+export const LongitudeSchema = numberBetween(-180, 180)
+
+export const EmailSchema = z.string().trim().toLowerCase().pipe(z.email('not an e-mail address').max(254))
+export const PersonNameSchema = z.string().trim().min(1, 'required').max(120)
+export const RoleSchema = z.enum(['coordinator', 'safety', 'crew'], { error: 'must be coordinator, safety or crew' })

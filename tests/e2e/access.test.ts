@@ -1,0 +1,84 @@
+import { readdirSync, statSync } from 'node:fs'
+import { join, relative, resolve } from 'node:path'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { ApiClient, signedInClient, startAppServer, type AppServer } from '../support/app-server'
+
+type Role = 'coordinator' | 'safety' | 'crew'
+const ALL: Role[] = ['coordinator', 'safety', 'crew']
+
+// Every route file under server/api and who may call it. A route file missing here fails the
+// test, so a new route cannot skip its access check. 'public' routes need no session.
+const ACCESS: Record<string, Role[] | 'public'> = {
+  'auth/login.post': 'public',
+  'auth/logout.post': 'public',
+  'auth/me.get': ALL,
+  'people/index.get': ALL,
+  'people/index.post': ['coordinator'],
+  'people/[id].get': ALL,
+  'people/[id].patch': ['coordinator'],
+  'sites/index.get': ALL,
+  'sites/index.post': ['coordinator'],
+  'sites/[id].get': ALL,
+  'shifts/index.get': ALL,
+  'shifts/index.post': ['coordinator'],
+  'shifts/[id].get': ALL,
+  'shifts/[id].patch': ['coordinator'],
+  'light.get': ALL,
+  'seasons.get': ALL,
+  'sites/[id]/light.get': ALL,
+  'sites/[id]/seasons.get': ALL
+}
+
+const API_DIR = resolve(import.meta.dirname, '../../server/api')
+
+function listRouteFiles(dir: string): string[] {
+  return readdirSync(dir).flatMap((name) => {
+    const full = join(dir, name)
+    return statSync(full).isDirectory() ? listRouteFiles(full) : [relative(API_DIR, full).replace(/\.ts$/, '')]
+  })
+}
+
+function toRequest(file: string) {
+  const method = file.split('.').pop()!.toUpperCase()
+  const path = '/api/' + file.replace(/\.[a-z]+$/, '').replace(/(^|\/)index$/, '').replace(/\[[^\]]+\]/g, '1')
+  return { method, path: path.replace(/\/$/, '') }
+}
+
+let server: AppServer
+const clients: Partial<Record<Role, ApiClient>> = {}
+
+beforeAll(async () => {
+  server = await startAppServer()
+  clients.coordinator = await signedInClient(server, 'coordinator@gloamline.test')
+  clients.safety = await signedInClient(server, 'safety@gloamline.test')
+  clients.crew = await signedInClient(server, 'crew@gloamline.test')
+})
+afterAll(async () => {
+  await server?.stop()
+})
+
+describe('access to every route', () => {
+  const files = listRouteFiles(API_DIR)
+
+  it('knows every route file under server/api', () => {
+    const unknown = files.filter(f => !(f in ACCESS))
+    expect(unknown, 'add these routes to ACCESS with the roles that may call them').toEqual([])
+    expect(files.every(f => /\.(get|post|patch|put|delete)$/.test(f)), 'every route file names its method').toBe(true)
+  })
+
+  for (const file of files) {
+    const { method, path } = toRequest(file)
+    const allowed = ACCESS[file]
+    if (allowed === 'public' || allowed === undefined) continue
+    it(`${method} ${path}: 401 signed out, 403 for roles outside ${allowed.join('/')}`, async () => {
+      const anonymous = await new ApiClient(server.url).request(method, path, method === 'GET' ? undefined : {})
+      expect(anonymous.status).toBe(401)
+      for (const role of ALL) {
+        const reply = await clients[role]!.request(method, path, method === 'GET' ? undefined : {})
+        if (allowed.includes(role)) expect([401, 403], `${role} should be let in`).not.toContain(reply.status)
+        else expect(reply.status, `${role} should be refused`).toBe(403)
+        expect(reply.status, `${role} must never see a server error`).toBeLessThan(500)
+      }
+    })
+  }
+})
