@@ -1,6 +1,6 @@
 // Shapes and small pure helpers of the light outlook (year chart, run-up, light board, slot finder),
 // shared by the server routes and the pages. Imports neither Vue nor Nitro.
-import type { BandKind, DayStatus, LightRequirement } from './light'
+import type { BandKind, DayStatus, LightPeriod, LightRequirement } from './light'
 
 /** One band of a local day as [kind, startMinute, endMinute], minutes elapsed since local midnight. */
 export type CompactPeriod = [BandKind, number, number]
@@ -113,6 +113,8 @@ export const CIVIL_HOURS_PRESETS = [
 export interface BoardDay {
   date: string
   status: DayStatus
+  /** The day's bands, for its strip. */
+  periods: LightPeriod[]
   sunrise: string | null
   sunset: string | null
   civilDawn: string | null
@@ -167,6 +169,7 @@ export interface ProposedSlot {
   lightAfterMinutes: number | null
   /** The people the slot is for. */
   assigneeIds: number[]
+  assignees: { id: number, name: string }[]
 }
 
 export type SlotReasonCode = 'light' | 'unavailable' | 'busy' | 'rest' | 'max-length' | 'past' | null
@@ -189,39 +192,47 @@ export interface SlotSearchResult {
   rules: { minRestHours: number, maxShiftHours: number }
 }
 
-/** A duration in minutes as `3 h 25 min`, `45 min`, `12 h` (LOOK.md). */
-export function formatDurationMinutes(minutes: number): string {
-  const total = Math.max(0, Math.round(minutes))
-  const h = Math.floor(total / 60)
-  const m = total % 60
-  if (h === 0) return `${m} min`
-  return m === 0 ? `${h} h` : `${h} h ${m} min`
-}
-
-const WEEKDAYS = ['Sun', 'Mon', 'Tue', 'Wed', 'Thu', 'Fri', 'Sat']
-const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec']
-
-/** A local date YYYY-MM-DD as `Tue 14 Jan` (LOOK.md); with the year when asked. */
-export function formatLocalDate(date: string, withYear = false): string {
-  const [y, m, d] = date.split('-').map(Number) as [number, number, number]
-  const weekday = WEEKDAYS[new Date(Date.UTC(y, m - 1, d)).getUTCDay()]
-  return `${weekday} ${d} ${MONTHS[m - 1]}${withYear ? ` ${y}` : ''}`
-}
-
 /** The wall-clock `HH:mm` of an ISO 8601 instant written with its offset (the offset is kept as written). */
 export function formatWallTime(iso: string): string {
   return iso.slice(11, 16)
 }
 
-/** The offset part of an ISO 8601 instant (`+01:00`), or `UTC` for Z. */
+/** The offset part of an ISO 8601 instant (`+01:00`; `+00:00` for Z). */
 export function offsetOfIso(iso: string): string {
   const match = /([+-]\d{2}:\d{2}|Z)$/.exec(iso)
-  return !match || match[1] === 'Z' ? 'UTC' : match[1]!
+  return !match || match[1] === 'Z' ? '+00:00' : match[1]!
+}
+
+/** `UTC+01:00`, `UTC−07:00`: the offset of an ISO 8601 instant as the app shows it. */
+export function formatOffsetLabel(iso: string): string {
+  const offset = offsetOfIso(iso)
+  return `UTC${offset.startsWith('-') ? '−' : '+'}${offset.slice(1)}`
 }
 
 /** Whole days from one local date to another (positive when `to` is later). */
 export function countDaysBetween(from: string, to: string): number {
   return Math.round((Date.parse(`${to}T00:00:00Z`) - Date.parse(`${from}T00:00:00Z`)) / 86_400_000)
+}
+
+/** A day's bands as wall-clock minute spans [kind, from, to] for drawing, split at a clock change. */
+export function toWallSegments(periods: CompactPeriod[], change: Pick<ClockChange, 'atMinute' | 'shiftMinutes'> | undefined): CompactPeriod[] {
+  if (!change) return periods
+  const { atMinute: at, shiftMinutes: shift } = change
+  // A band ending at the change ends on the new clock when clocks go forward (no hole for the skipped
+  // hour), on the old clock when they go back (the repeated hour is drawn once, by the later band).
+  const mapEnd = (m: number) => (m > at || (m === at && shift > 0) ? m + shift : m)
+  const out: CompactPeriod[] = []
+  for (const [kind, start, end] of periods) {
+    if (start < at && end > at) out.push([kind, start, shift > 0 ? at + shift : at], [kind, at + shift, end + shift])
+    else out.push([kind, toWallMinute(start, change), mapEnd(end)])
+  }
+  return out
+}
+
+/** Wall-clock minutes since midnight of an ISO 8601 time written in the site's offset; `dayDate` makes the next midnight 1440. */
+export function wallMinuteOfIso(iso: string, dayDate: string): number {
+  const minutes = Number(iso.slice(11, 13)) * 60 + Number(iso.slice(14, 16)) + Number(iso.slice(17, 19)) / 60
+  return iso.slice(0, 10) > dayDate ? 1440 + minutes : minutes
 }
 
 /** Maps minutes elapsed since local midnight to the wall clock's minutes, across a clock change. */

@@ -20,6 +20,18 @@ export interface SiteItem {
   archivedAt: string | number | null
 }
 
+/** The body of POST /api/sites and PATCH /api/sites/:id. */
+export interface SiteBody {
+  name: string
+  latitude: number
+  longitude: number
+  elevation: number | null
+  timezone: string
+  defaultLight: LightRequirement
+  reminderHour: number
+  notes: string
+}
+
 export interface PersonItem { id: number, name: string, email: string, role: Role, active: boolean }
 export interface CrewItem { id: number, name: string, members: { id: number, name: string, role: Role }[] }
 
@@ -74,6 +86,21 @@ export interface ShiftCheckReply {
 
 export interface SiteLightReply { siteId: number, timezone: string, days: LightDay[] }
 
+/** One row of an import preview (POST /api/import/shifts|people/preview). */
+export interface ImportPreviewRow {
+  row: number
+  ok: boolean
+  errors: string[]
+  notes?: string[]
+  timeNotes?: string[]
+  shift?: { siteId: number, siteName: string, title: string, start: string, end: string, light: LightRequirement, assigneeIds: number[] }
+  lightCheck?: { requirement: LightRequirement, minutesBelow: number, flagged: boolean }
+  conflicts?: ShiftConflict[]
+  person?: { name: string, email: string, role: string, crews: string[], existingId: number | null }
+}
+
+export interface ImportPreview { valid: boolean, rows: ImportPreviewRow[], errors: string[], crewsToCreate?: string[] }
+
 export type LightStateKey = 'clear' | 'flagged' | 'approved' | 'rejected' | 'changes-requested'
 
 export interface LightState { key: LightStateKey, label: string, detail: string }
@@ -120,4 +147,31 @@ export function describeLightState(shift: Pick<ShiftItem, 'lightCheck' | 'review
   if (shift.reviewState === 'rejected') return { key: 'rejected', label: 'Rejected', detail: `${below}; rejected by safety review` }
   if (shift.reviewState === 'changes-requested') return { key: 'changes-requested', label: 'Changes requested', detail: `${below}; safety review asks for changes` }
   return { key: 'flagged', label: `Flagged: ${below}`, detail: 'Waiting for safety review' }
+}
+
+const WALL_RE = /^\d{4}-\d{2}-\d{2}T([01]\d|2[0-3]):[0-5]\d$/
+/** Longest shift the server accepts (DESIGN.md bad input: longer than 7 days is refused). */
+export const MAX_SHIFT_MINUTES = 7 * 24 * 60
+
+/**
+ * Checks a shift draft before it is sent: { field: message } for what is wrong, empty when it may go.
+ * Times are wall clocks in one zone, so comparing them as UTC is exact except across a DST change,
+ * where the server's own check decides.
+ */
+export function validateShiftDraft(draft: ShiftDraft, conflicts: ShiftConflict[] = []): Record<string, string> {
+  const errors: Record<string, string> = {}
+  if (!draft.siteId) errors.siteId = 'Choose the site.'
+  if (!draft.title.trim()) errors.title = 'Say what the task is.'
+  else if (draft.title.trim().length > 200) errors.title = 'Keep the task under 200 characters.'
+  if (!WALL_RE.test(draft.start)) errors.start = 'Give a start date and a 24-hour time (HH:mm).'
+  if (!WALL_RE.test(draft.end)) errors.end = 'Give an end date and a 24-hour time (HH:mm).'
+  if (!errors.start && !errors.end) {
+    const minutes = (Date.parse(`${draft.end}Z`) - Date.parse(`${draft.start}Z`)) / 60_000
+    if (minutes <= 0) errors.end = 'The end must be after the start.'
+    else if (minutes > MAX_SHIFT_MINUTES) errors.end = 'A shift may last at most 7 days.'
+  }
+  if (conflicts.length && !draft.overrideReason.trim()) {
+    errors.overrideReason = 'This shift has conflict warnings: give the reason for keeping it, or change it.'
+  }
+  return errors
 }

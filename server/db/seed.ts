@@ -2,7 +2,7 @@ import { sql } from 'drizzle-orm'
 import type { AppDatabase } from '../utils/db'
 import { checkShiftLight } from '../utils/light-check'
 import { addDaysToDate, localDateOf, resolveLocalOrInstant } from '../utils/zoned'
-import { crewMembers, crews, people, shiftAssignees, shifts, sites, unavailability, type NewShift } from './schema'
+import { crewMembers, crews, people, reviews, shiftAssignees, shifts, sites, unavailability, type NewShift } from './schema'
 
 // The demo scenario: an invented operator, Northwake Field Services, with invented sites at real
 // coordinates and invented people on the .test domain. Demo only: no test relies on these numbers.
@@ -31,23 +31,48 @@ const PEOPLE = [
   { name: 'Owen McBride', email: 'owen.mcbride@gloamline.test', role: 'crew' },
   { name: 'Hanna Lindqvist', email: 'hanna.lindqvist@gloamline.test', role: 'crew' },
   { name: 'Pita Rangi', email: 'pita.rangi@gloamline.test', role: 'crew' },
-  { name: 'Elias Brandt', email: 'elias.brandt@gloamline.test', role: 'crew' }
+  { name: 'Elias Brandt', email: 'elias.brandt@gloamline.test', role: 'crew' },
+  { name: 'Mika Virtanen', email: 'mika.virtanen@gloamline.test', role: 'crew' },
+  { name: 'Greta Holm', email: 'greta.holm@gloamline.test', role: 'crew' },
+  { name: 'Siri Dahl', email: 'siri.dahl@gloamline.test', role: 'crew' },
+  { name: 'Tane Walker', email: 'tane.walker@gloamline.test', role: 'crew' },
+  { name: 'Ana Kealoha', email: 'ana.kealoha@gloamline.test', role: 'crew' }
 ] as const
 
 const CREWS = [
-  { name: 'Rime crew', members: ['crew@gloamline.test', 'liv.aasen@gloamline.test', 'kalle.niemi@gloamline.test', 'jonas.eide@gloamline.test'] },
-  { name: 'Lantern crew', members: ['sofia.marchetti@gloamline.test', 'nora.tuktu@gloamline.test', 'owen.mcbride@gloamline.test', 'crew@gloamline.test'] },
-  { name: 'Bearing crew', members: ['hanna.lindqvist@gloamline.test', 'pita.rangi@gloamline.test', 'elias.brandt@gloamline.test'] }
+  { name: 'Rime crew', members: ['crew@gloamline.test', 'jonas.eide@gloamline.test', 'liv.aasen@gloamline.test', 'kalle.niemi@gloamline.test'] },
+  { name: 'Lantern crew', members: ['sofia.marchetti@gloamline.test', 'nora.tuktu@gloamline.test', 'owen.mcbride@gloamline.test', 'hanna.lindqvist@gloamline.test'] },
+  { name: 'Bearing crew', members: ['pita.rangi@gloamline.test', 'elias.brandt@gloamline.test', 'mika.virtanen@gloamline.test', 'greta.holm@gloamline.test'] }
 ]
 
-// per site: the daily pattern of work (local start hour, hours, task, requirement, crew index)
-const PATTERNS: Record<string, [number, number, string, 'daylight' | 'civil' | 'any', number][]> = {
-  'Kvitfjell Ice Camp': [[9, 4, 'Snow-machine route check', 'civil', 0], [13, 3, 'Weather mast service', 'any', 0]],
-  'Ravnvik Pipeline Yard': [[8, 6, 'Pipe stringing', 'daylight', 1], [15, 3, 'Crossing inspection', 'civil', 1]],
-  'Saqqaq Ridge Survey': [[10, 4, 'Magnetometer traverse', 'daylight', 2]],
-  'Tamarack Creek Mine': [[7, 10, 'Haul road grading', 'civil', 2], [19, 8, 'Pit lighting maintenance', 'any', 1]],
-  'Larsen Wharf Line Crew': [[8, 7, 'Line patrol', 'daylight', 0]],
-  'Cape Mawdsley Station': [[8, 9, 'Sea-ice route flagging', 'daylight', 2]]
+interface Pattern { hour: number, hours: number, title: string, light: 'daylight' | 'civil' | 'any', people: string[], days: number[] }
+const MON_SAT = [1, 2, 3, 4, 5, 6]
+const MON_FRI = [1, 2, 3, 4, 5]
+
+// per site: the work pattern (local start hour, length, task, requirement, the same people each
+// working day, so nobody is planned twice at once or without a night's rest)
+const PATTERNS: Record<string, Pattern[]> = {
+  'Kvitfjell Ice Camp': [
+    { hour: 9, hours: 4, title: 'Snow-machine route check', light: 'civil', people: ['crew@gloamline.test', 'jonas.eide@gloamline.test'], days: MON_SAT },
+    { hour: 13, hours: 3, title: 'Weather mast service', light: 'any', people: ['liv.aasen@gloamline.test', 'kalle.niemi@gloamline.test'], days: MON_FRI }
+  ],
+  'Ravnvik Pipeline Yard': [
+    { hour: 8, hours: 6, title: 'Pipe stringing', light: 'daylight', people: ['sofia.marchetti@gloamline.test', 'nora.tuktu@gloamline.test'], days: MON_FRI },
+    { hour: 15, hours: 3, title: 'Crossing inspection', light: 'civil', people: ['owen.mcbride@gloamline.test'], days: [2, 4] }
+  ],
+  'Saqqaq Ridge Survey': [
+    { hour: 10, hours: 4, title: 'Magnetometer traverse', light: 'daylight', people: ['hanna.lindqvist@gloamline.test'], days: [1, 3, 5] }
+  ],
+  'Tamarack Creek Mine': [
+    { hour: 7, hours: 10, title: 'Haul road grading', light: 'civil', people: ['pita.rangi@gloamline.test', 'elias.brandt@gloamline.test'], days: MON_FRI },
+    { hour: 19, hours: 8, title: 'Pit lighting maintenance', light: 'any', people: ['mika.virtanen@gloamline.test', 'greta.holm@gloamline.test'], days: [1, 2, 3, 4] }
+  ],
+  'Larsen Wharf Line Crew': [
+    { hour: 9, hours: 5, title: 'Line patrol', light: 'daylight', people: ['siri.dahl@gloamline.test'], days: MON_FRI }
+  ],
+  'Cape Mawdsley Station': [
+    { hour: 8, hours: 9, title: 'Sea-ice route flagging', light: 'daylight', people: ['tane.walker@gloamline.test', 'ana.kealoha@gloamline.test'], days: MON_SAT }
+  ]
 }
 
 /** True when the database holds no people yet: seeding never touches a database with data. */
@@ -67,15 +92,15 @@ export function seedDemoScenario(db: AppDatabase, passwordHash: string, now = Da
     const crewPeople = CREWS.map(c => c.members.map(email => idByEmail.get(email)!))
     crewRows.forEach((crew, i) => tx.insert(crewMembers).values(crewPeople[i]!.map(personId => ({ crewId: crew.id, personId }))).run())
     const creator = idByEmail.get('coordinator@gloamline.test')!
+    const safetyId = idByEmail.get('safety@gloamline.test')!
     for (const site of siteRows) {
       const today = localDateOf(now, site.timezone)
       for (let offset = -14; offset <= 21; offset++) {
         const date = addDaysToDate(today, offset)
         const weekday = new Date(`${date}T12:00:00Z`).getUTCDay()
-        if (weekday === 0) continue
-        PATTERNS[site.name]!.forEach(([hour, hours, title, light, crewIndex], n) => {
-          // rotate crew members so nobody works every pattern every day
-          const members = crewPeople[crewIndex]!.filter((_, k) => (k + offset + n) % 3 !== 0)
+        for (const { hour, hours, title, light, people: emails, days } of PATTERNS[site.name]!) {
+          if (!days.includes(weekday)) continue
+          const members = emails.map(email => idByEmail.get(email)!)
           const startMs = resolveLocalOrInstant(`${date}T${String(hour).padStart(2, '0')}:00`, site.timezone).ms
           const endMs = startMs + hours * 3_600_000
           const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: light })
@@ -84,14 +109,19 @@ export function seedDemoScenario(db: AppDatabase, passwordHash: string, now = Da
             minutesBelow: check.minutesBelow, flagged: check.flagged,
             reviewState: check.flagged ? 'pending' : 'not-needed', createdBy: creator
           }
+          // past dark-hour work was reviewed: approved with lighting and a second person
+          if (check.flagged && offset < 0) values.reviewState = 'approved'
           const row = tx.insert(shifts).values(values).returning({ id: shifts.id }).get()
-          if (members.length) tx.insert(shiftAssignees).values(members.map(personId => ({ shiftId: row.id, personId }))).run()
-        })
+          if (values.reviewState === 'approved') {
+            tx.insert(reviews).values({ shiftId: row.id, reviewerId: safetyId, decision: 'approved', mitigations: ['portable-lighting', 'two-person-minimum'], note: 'Lit route and buddy system as briefed.', shiftVersion: 1 }).run()
+          }
+          tx.insert(shiftAssignees).values(members.map(personId => ({ shiftId: row.id, personId }))).run()
+        }
       }
     }
     tx.insert(unavailability).values([
       { personId: idByEmail.get('kalle.niemi@gloamline.test')!, startAt: new Date(now + 2 * 86_400_000), endAt: new Date(now + 6 * 86_400_000), reason: 'Leave' },
-      { personId: idByEmail.get('owen.mcbride@gloamline.test')!, startAt: new Date(now + 86_400_000), endAt: new Date(now + 2 * 86_400_000), reason: 'Travel day' }
+      { personId: idByEmail.get('owen.mcbride@gloamline.test')!, startAt: new Date(now + 9 * 86_400_000), endAt: new Date(now + 10 * 86_400_000), reason: 'Travel day' }
     ]).run()
   })
   return true

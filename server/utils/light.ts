@@ -24,22 +24,29 @@ import {
   sampleSunAltitude,
   sampleSunApparentAltitude,
   sampleSunPosition,
-  solveRootBrent
+  solveRootBrent,
+  solveRootNearGuess
 } from './sun'
 
 const MINUTE_MS = 60_000
+const HOUR_MS = 3_600_000
 const DAY_MS = 86_400_000
 
-// Grid spacing of the altitude samples. The altitude is a smooth curve with one high and one low point
-// per ~24 h; a 60-minute grid always shows each of them as a local extreme of the samples, and the
-// extremum refinement then finds the true peak, so a grazing dip between two samples is not missed.
-export const CFG = { step: Number(process.env.STEP ?? 60) * MINUTE_MS, tol: Number(process.env.TOL ?? 2000), rtol: Number(process.env.RTOL ?? 500) }
-let GRID_STEP_MS = CFG.step
-// Brent's method stops when the crossing is bracketed within this width: every reported crossing is
-// within 0.5 s of the root of suncalc's geometric altitude minus the threshold, before rounding to 1 s.
-const ROOT_TOLERANCE_MS = 500
-// The peak time only moves the peak altitude by ~1e-7° per second here, so seconds are plenty.
-const EXTREMUM_TOLERANCE_MS = 2_000
+// Spacing of the altitude samples. The sun's altitude is a smooth curve with one highest and one
+// lowest point per ~24 h (at least ~6 h apart short of the last hundredth of a degree at the poles), so
+// a 2-hour grid shows each of them as a local extreme of the samples; each is then refined to the
+// true extremum, and the crossings are searched on the monotone pieces between them, so a dip past a
+// threshold between two samples is not missed however shallow it is.
+const GRID_STEP_MS = 2 * HOUR_MS
+// Brent's method stops once the crossing is bracketed within 1 s; the estimate inside that bracket is
+// then rounded to the whole second reported.
+const ROOT_TOLERANCE_MS = 1_000
+// A few seconds off the true peak moves its altitude by under 1e-6°, far below the 0.01° reported.
+const EXTREMUM_TOLERANCE_MS = 5_000
+// Half-spacing of the three samples that confirm a predicted extremum.
+const EXTREMUM_PROBE_MS = 30_000
+// Day-to-day predictions are trusted only for a steady daily series.
+const PREDICTION_MAX_WOBBLE_MS = 10 * MINUTE_MS
 const THRESHOLDS = BAND_THRESHOLDS_ASCENDING_DEG
 
 interface TraceCrossing {
@@ -96,20 +103,16 @@ function bandAfterCrossing(crossing: TraceCrossing): number {
 // free of allocations; the engine is synchronous, so no two traces interleave.
 const SEARCH = { latitude: 0, longitude: 0, threshold: 0, lastMs: NaN, lastAzimuth: 0 }
 
-export const DBG = { grid: 0, ext: 0, root: 0 }
 function searchAltitude(ms: number): number {
-  DBG.ext++
   return sampleSunApparentAltitude(ms, SEARCH.latitude, SEARCH.longitude)
 }
 
 function searchNegatedAltitude(ms: number): number {
-  DBG.ext++
   return -sampleSunApparentAltitude(ms, SEARCH.latitude, SEARCH.longitude)
 }
 
 // Apparent altitude minus the current threshold, remembering the azimuth of the last evaluation.
 function searchAboveThreshold(ms: number): number {
-  DBG.root++
   const position = sampleSunPosition(ms, SEARCH.latitude, SEARCH.longitude)
   SEARCH.lastMs = ms
   SEARCH.lastAzimuth = position.azimuth
@@ -122,6 +125,46 @@ function sampleGrid(firstMs: number, count: number): Float64Array {
   return values
 }
 
+// Day-to-day prediction. A crossing of a threshold, and the time of the highest or lowest point,
+// moves smoothly from one day to the next: a quadratic extrapolation over the three days before is
+// typically within a fraction of a second at mid latitudes. A prediction is only ever a starting
+// point: it is confirmed by samples that bracket the root or the extremum, and when it fails the full
+// search runs. Slots: crossings level * 2 + (rising ? 1 : 0); extrema 0 lows, 1 highs; newest first.
+const CROSSING_HISTORY = new Float64Array(8 * 3)
+const EXTREMUM_HISTORY = new Float64Array(2 * 3)
+
+function predictSeries(history: Float64Array, slot: number): number {
+  const c1 = history[slot * 3]!
+  const c2 = history[slot * 3 + 1]!
+  const c3 = history[slot * 3 + 2]!
+  const d1 = c1 - c2
+  const d2 = c2 - c3
+  // Only extrapolate a steady daily series (no gap day, no polar transition in between).
+  if (!(Math.abs(d1 - DAY_MS) < 2 * HOUR_MS && Math.abs(d1 - d2) < PREDICTION_MAX_WOBBLE_MS)) return NaN
+  return c1 + d1 + (d1 - d2)
+}
+
+function recordSeries(history: Float64Array, slot: number, ms: number) {
+  history[slot * 3 + 2] = history[slot * 3 + 1]!
+  history[slot * 3 + 1] = history[slot * 3]!
+  history[slot * 3] = ms
+}
+
+// Confirms a predicted extremum with three samples around it: if the middle one is the best, the
+// extremum lies between the outer two (one extremum per grid bracket), and the parabola through the
+// three places it to well under a second. Returns null when the prediction does not hold.
+function confirmPredictedExtremum(f: (ms: number) => number, guess: number, lo: number, hi: number) {
+  if (!(guess - EXTREMUM_PROBE_MS > lo && guess + EXTREMUM_PROBE_MS < hi)) return null
+  const fm = f(guess)
+  const fl = f(guess - EXTREMUM_PROBE_MS)
+  if (fl < fm) return null
+  const fr = f(guess + EXTREMUM_PROBE_MS)
+  if (fr < fm) return null
+  const curvature = fl - 2 * fm + fr
+  const offset = curvature > 0 ? 0.5 * (fl - fr) / curvature : 0
+  return { x: guess + offset * EXTREMUM_PROBE_MS, fx: fm - 0.25 * (fl - fr) * offset }
+}
+
 // Refines every local extreme of the samples to the true highest or lowest point near it.
 function refineExtrema(firstMs: number, values: Float64Array): { ms: number, apparent: number, isMax: boolean }[] {
   const extrema: { ms: number, apparent: number, isMax: boolean }[] = []
@@ -132,9 +175,12 @@ function refineExtrema(firstMs: number, values: Float64Array): { ms: number, app
     if (!isMax && !isMin) continue
     const t = firstMs + i * GRID_STEP_MS
     const sign = isMax ? -1 : 1
-    const found = minimizeBrent(isMax ? searchNegatedAltitude : searchAltitude, t - GRID_STEP_MS, t + GRID_STEP_MS, t,
-      sign * v, CFG.tol, 60, sign * values[i - 1]!, sign * values[i + 1]!)
-    extrema.push({ ms: found.x, apparent: isMax ? -found.fx : found.fx, isMax })
+    const f = isMax ? searchNegatedAltitude : searchAltitude
+    const slot = isMax ? 1 : 0
+    const found = confirmPredictedExtremum(f, predictSeries(EXTREMUM_HISTORY, slot), t - GRID_STEP_MS, t + GRID_STEP_MS)
+      ?? minimizeBrent(f, t - GRID_STEP_MS, t + GRID_STEP_MS, t, sign * v, EXTREMUM_TOLERANCE_MS, 60, sign * values[i - 1]!, sign * values[i + 1]!)
+    recordSeries(EXTREMUM_HISTORY, slot, found.x)
+    extrema.push({ ms: found.x, apparent: sign * found.fx, isMax })
   }
   return extrema.sort((a, b) => a.ms - b.ms)
 }
@@ -171,14 +217,17 @@ function findCrossingsBetween(t0: number, a0: number, t1: number, a1: number, ou
   let loAlt = a0
   for (let n = 0; n < Math.abs(b1 - b0); n++) {
     const level = rising ? b0 + n : b0 - 1 - n
+    const slot = level * 2 + (rising ? 1 : 0)
     const threshold = APPARENT_THRESHOLDS[level]!
     SEARCH.threshold = threshold
     SEARCH.lastMs = NaN
-    const root = solveRootBrent(searchAboveThreshold, lo, t1, loAlt - threshold, a1 - threshold, CFG.rtol)
-    // The last evaluation lies inside the final bracket (≤ 1 s away); re-sample only if Brent took none.
-    const azimuth = Math.abs(SEARCH.lastMs - root) <= 2 * ROOT_TOLERANCE_MS
+    const guess = predictSeries(CROSSING_HISTORY, slot)
+    const root = solveRootNearGuess(searchAboveThreshold, lo, t1, loAlt - threshold, a1 - threshold, guess, ROOT_TOLERANCE_MS / 2, ROOT_TOLERANCE_MS)
+    // The last evaluation lies inside the final bracket (≤ 1 s away); re-sample only if none was taken.
+    const azimuth = Math.abs(SEARCH.lastMs - root) <= ROOT_TOLERANCE_MS
       ? SEARCH.lastAzimuth
       : sampleSunPosition(root, SEARCH.latitude, SEARCH.longitude).azimuth
+    recordSeries(CROSSING_HISTORY, slot, root)
     out.push({ ms: Math.round(root / 1000) * 1000, level, rising, azimuth })
     // The next threshold lies beyond this one: narrow its bracket (its sign is certain, its size close).
     lo = root
@@ -188,9 +237,10 @@ function findCrossingsBetween(t0: number, a0: number, t1: number, a1: number, ou
 
 /** Samples and searches the sun over [fromMs, toMs] (plus a margin), returning every crossing and extremum. */
 function traceSun(latitude: number, longitude: number, fromMs: number, toMs: number): SunTrace {
-  GRID_STEP_MS = CFG.step
   SEARCH.latitude = latitude
   SEARCH.longitude = longitude
+  CROSSING_HISTORY.fill(NaN)
+  EXTREMUM_HISTORY.fill(NaN)
   const firstMs = Math.floor(fromMs / GRID_STEP_MS) * GRID_STEP_MS - 2 * GRID_STEP_MS
   const lastMs = Math.ceil(toMs / GRID_STEP_MS) * GRID_STEP_MS + 2 * GRID_STEP_MS
   const count = Math.round((lastMs - firstMs) / GRID_STEP_MS) + 1
@@ -203,17 +253,23 @@ function traceSun(latitude: number, longitude: number, fromMs: number, toMs: num
   return { startBand: bandIndexOfApparent(values[0]!), crossings, extrema }
 }
 
-// Appends a band from atMs, merging with the previous period when the kind repeats or no time passed.
+// Appends a band from atMs to endMs. The last period always runs to endMs; a crossing at its very start
+// (no time spent in it) replaces it, and same-kind neighbours are merged.
 function appendBand(periods: LightPeriodMs[], kind: BandKind, atMs: number, endMs: number) {
-  const last = periods[periods.length - 1]
-  if (last && last.kind === kind) return
-  if (last && last.startMs >= atMs) {
-    periods.pop()
-    appendBand(periods, kind, last.startMs, endMs)
+  const last = periods[periods.length - 1]!
+  if (last.kind === kind) return
+  if (last.startMs < atMs) {
+    last.endMs = atMs
+    periods.push({ kind, startMs: atMs, endMs })
     return
   }
-  if (last) last.endMs = atMs
-  periods.push({ kind, startMs: atMs, endMs })
+  const previous = periods[periods.length - 2]
+  if (previous && previous.kind === kind) {
+    periods.pop()
+    previous.endMs = endMs
+  } else {
+    last.kind = kind
+  }
 }
 
 /** The light bands covering the UTC instant range [startMs, endMs) at a place (no time zone needed). */
@@ -239,11 +295,11 @@ export function computeLightPeriodsInRange(latitude: number, longitude: number, 
 
 // ---------------------------------------------------------------------------------------------
 // Time zones. Offsets come from Intl (the IANA database bundled with Node). Intl is slow (~2 µs a
-// call), so each zone's offset changes are found once per UTC year — one probe a day, then a bisection
+// call), so each zone's offset changes are found once per UTC month — one probe a day, then a bisection
 // to the second where the offset differs — and cached; local midnights and ISO strings are then pure
 // arithmetic. (Assumes a zone never changes its offset twice within 24 h, true of the tz data.)
 
-interface ZoneYear {
+interface ZoneMonth {
   startOffsetMs: number
   /** Instants at which the offset changes, with the offset from then on. */
   changes: { ms: number, offsetMs: number }[]
@@ -256,23 +312,25 @@ interface ZoneTimeline {
 }
 
 const ZONE_FORMATTERS = new Map<string, Intl.DateTimeFormat>()
-const ZONE_YEARS = new Map<string, ZoneYear>()
-const MAX_CACHED_ZONE_YEARS = 2_000
+const VALID_ZONES = new Set<string>()
+const ZONE_MONTHS = new Map<string, ZoneMonth>()
+const MAX_CACHED_ZONE_MONTHS = 20_000
 const ZONE_PROBE_DATE = new Date(0)
 const WALL_CLOCK_RE = /^(\d+)\/(\d+)\/(\d+),? (\d+):(\d+):(\d+)$/
 
 /** True for an IANA time zone name Intl knows (e.g. Europe/Oslo, UTC, Etc/GMT+2); false for offsets like +02:00. */
 export function isValidTimeZone(tz: string): boolean {
   if (typeof tz !== 'string' || tz.length === 0 || tz.length > 64) return false
-  if (ZONE_FORMATTERS.has(tz)) return true
+  if (VALID_ZONES.has(tz)) return true
   // Newer Intl versions accept bare offsets; those are not IANA zones and carry no daylight-saving rules.
   if (/^[+-]/.test(tz) || /\s/.test(tz)) return false
   try {
     new Intl.DateTimeFormat('en-US', { timeZone: tz })
-    return true
   } catch {
     return false
   }
+  if (VALID_ZONES.size < 1_000) VALID_ZONES.add(tz)
+  return true
 }
 
 function zoneFormatter(zone: string): Intl.DateTimeFormat {
@@ -308,35 +366,42 @@ function bisectZoneChange(zone: string, lo: number, hi: number, loOffset: number
   return hi
 }
 
-function loadZoneYear(zone: string, year: number): ZoneYear {
-  const key = `${zone}|${year}`
-  const cached = ZONE_YEARS.get(key)
+// Offset changes of a zone within one UTC calendar month (months index from year 0), probed daily.
+function loadZoneMonth(zone: string, monthIndex: number): ZoneMonth {
+  const key = `${zone}|${monthIndex}`
+  const cached = ZONE_MONTHS.get(key)
   if (cached) return cached
-  const startMs = Date.UTC(year, 0, 1)
-  const endMs = Date.UTC(year + 1, 0, 1)
+  const startMs = Date.UTC(Math.floor(monthIndex / 12), monthIndex % 12, 1)
+  const endMs = Date.UTC(Math.floor(monthIndex / 12), monthIndex % 12 + 1, 1)
   const startOffsetMs = probeZoneOffsetMs(zone, startMs)
-  const changes: ZoneYear['changes'] = []
+  const changes: ZoneMonth['changes'] = []
   let prevMs = startMs
   let prevOffset = startOffsetMs
-  for (let ms = startMs + DAY_MS; prevMs < endMs; ms = Math.min(ms + DAY_MS, endMs)) {
+  while (prevMs < endMs) {
+    const ms = Math.min(prevMs + DAY_MS, endMs)
     const offset = probeZoneOffsetMs(zone, ms)
     if (offset !== prevOffset) changes.push({ ms: bisectZoneChange(zone, prevMs, ms, prevOffset), offsetMs: offset })
     prevMs = ms
     prevOffset = offset
   }
-  if (ZONE_YEARS.size >= MAX_CACHED_ZONE_YEARS) ZONE_YEARS.clear()
-  const result = { startOffsetMs, changes }
-  ZONE_YEARS.set(key, result)
-  return result
+  if (ZONE_MONTHS.size >= MAX_CACHED_ZONE_MONTHS) ZONE_MONTHS.clear()
+  const month = { startOffsetMs, changes }
+  ZONE_MONTHS.set(key, month)
+  return month
+}
+
+function monthIndexOf(ms: number): number {
+  const date = new Date(ms)
+  return date.getUTCFullYear() * 12 + date.getUTCMonth()
 }
 
 function buildZoneTimeline(zone: string, fromMs: number, toMs: number): ZoneTimeline {
-  const firstYear = new Date(fromMs).getUTCFullYear()
-  const lastYear = new Date(toMs).getUTCFullYear()
+  const first = monthIndexOf(fromMs)
+  const last = monthIndexOf(toMs)
   const starts = [-Infinity]
-  const offsets = [loadZoneYear(zone, firstYear).startOffsetMs]
-  for (let year = firstYear; year <= lastYear; year++) {
-    for (const change of loadZoneYear(zone, year).changes) {
+  const offsets = [loadZoneMonth(zone, first).startOffsetMs]
+  for (let m = first; m <= last; m++) {
+    for (const change of loadZoneMonth(zone, m).changes) {
       if (change.offsetMs === offsets[offsets.length - 1]) continue
       starts.push(change.ms)
       offsets.push(change.offsetMs)
@@ -383,19 +448,33 @@ function formatUtcDate(wallMs: number): string {
   return `${y}-${PAD2[m]}-${PAD2[d]}`
 }
 
+const OFFSET_STRINGS = new Map<number, string>()
+
 function formatOffset(offsetMs: number): string {
-  const minutes = Math.round(offsetMs / MINUTE_MS)
-  const abs = Math.abs(minutes)
-  return `${minutes < 0 ? '-' : '+'}${PAD2[Math.floor(abs / 60)]}:${PAD2[abs % 60]}`
+  let text = OFFSET_STRINGS.get(offsetMs)
+  if (text === undefined) {
+    const minutes = Math.round(offsetMs / MINUTE_MS)
+    const abs = Math.abs(minutes)
+    text = `${minutes < 0 ? '-' : '+'}${PAD2[Math.floor(abs / 60)]}:${PAD2[abs % 60]}`
+    OFFSET_STRINGS.set(offsetMs, text)
+  }
+  return text
 }
+
+// The date part of the last formatted instant: most instants of a day share it.
+const DATE_PREFIX = { days: NaN, text: '' }
 
 function formatWithTimeline(timeline: ZoneTimeline, ms: number): string {
   const whole = Math.round(ms / 1000) * 1000
   const offsetMs = zoneOffsetAt(timeline, whole)
   const local = whole + offsetMs
   const days = Math.floor(local / DAY_MS)
+  if (days !== DATE_PREFIX.days) {
+    DATE_PREFIX.days = days
+    DATE_PREFIX.text = formatUtcDate(local) + 'T'
+  }
   const secs = Math.round((local - days * DAY_MS) / 1000)
-  return `${formatUtcDate(local)}T${PAD2[Math.floor(secs / 3600)]}:${PAD2[Math.floor(secs / 60) % 60]}:${PAD2[secs % 60]}${formatOffset(offsetMs)}`
+  return DATE_PREFIX.text + PAD2[Math.floor(secs / 3600)] + ':' + PAD2[Math.floor(secs / 60) % 60] + ':' + PAD2[secs % 60] + formatOffset(offsetMs)
 }
 
 /** An instant as ISO 8601 with the zone's offset at that instant, to the second (e.g. 2026-12-01T09:12:34+01:00). */
@@ -549,25 +628,38 @@ export function computeLightDaysMs(input: LightDaysInput, options: { maxDays?: n
  */
 export function computeLightDays(input: LightDaysInput): LightDay[] {
   const { days, timeline } = computeDaysWithTimeline(input, MAX_LIGHT_RANGE_DAYS)
-  return days.map((day) => {
-    const iso = (ms: number) => formatWithTimeline(timeline, ms)
-    const periods = day.periods.map(p => ({ kind: p.kind, start: iso(p.startMs), end: '' }))
-    for (let i = 0; i < periods.length; i++) periods[i]!.end = i + 1 < periods.length ? periods[i + 1]!.start : iso(day.endMs)
-    return {
-      date: day.date,
-      periods,
-      events: day.events.map(e => ({ type: e.type, at: iso(e.atMs), azimuth: e.azimuth })),
-      solarNoon: iso(day.solarNoonMs),
-      maxAltitude: day.maxAltitude,
-      minAltitude: day.minAltitude,
-      daylightMinutes: day.daylightMinutes,
-      civilLightMinutes: day.civilLightMinutes,
-      status: day.status
-    }
+  return days.map(day => formatLightDay(day, timeline))
+}
+
+// One day with ISO strings; each boundary is formatted once and shared by the periods and events.
+function formatLightDay(day: LightDayMs, timeline: ZoneTimeline): LightDay {
+  const periods = new Array<LightDay['periods'][number]>(day.periods.length)
+  let start = formatWithTimeline(timeline, day.startMs)
+  for (let i = 0; i < day.periods.length; i++) {
+    const p = day.periods[i]!
+    const end = formatWithTimeline(timeline, p.endMs)
+    periods[i] = { kind: p.kind, start, end }
+    start = end
+  }
+  const events = day.events.map((e) => {
+    const period = day.periods.find(p => p.startMs === e.atMs)
+    const at = period ? periods[day.periods.indexOf(period)]!.start : formatWithTimeline(timeline, e.atMs)
+    return { type: e.type, at, azimuth: e.azimuth }
   })
+  return {
+    date: day.date,
+    periods,
+    events,
+    solarNoon: formatWithTimeline(timeline, day.solarNoonMs),
+    maxAltitude: day.maxAltitude,
+    minAltitude: day.minAltitude,
+    daylightMinutes: day.daylightMinutes,
+    civilLightMinutes: day.civilLightMinutes,
+    status: day.status
+  }
 }
 
 /** Drops the cached time-zone offset tables (for benchmarks that measure cold starts). */
 export function clearTimeZoneCache() {
-  ZONE_YEARS.clear()
+  ZONE_MONTHS.clear()
 }

@@ -6,6 +6,8 @@ import type { AppDatabase } from './db'
 import { checkShiftLight } from './light-check'
 import { InstantSchema, LocalDateSchema } from './validation'
 import { formatZonedIso, localMidnightMs, resolveLocalOrInstant } from './zoned'
+import type { ShiftConflict } from './conflicts'
+import { computeStoredShiftConflicts } from './conflict-context'
 
 export const MAX_SHIFT_MS = 7 * 24 * 3_600_000
 
@@ -27,6 +29,9 @@ export const ShiftBodySchema = z.object({
 export type ShiftInput = z.infer<typeof ShiftBodySchema>
 
 export const ShiftPatchSchema = ShiftBodySchema.partial().extend({
+  // no default here: zod 4 still applies the body's default([]) under partial(), and a patch that
+  // leaves the people out (a drag on the calendar) must keep them, not empty the shift
+  assigneeIds: z.array(z.number().int().positive(), { error: 'expected a list of person ids' }).max(200).optional(),
   version: z.number({ error: 'expected the version you edited' }).int().positive().optional()
 })
 export type ShiftPatch = z.infer<typeof ShiftPatchSchema>
@@ -65,6 +70,8 @@ export interface ShiftView {
   // the latest safety decision, if any (it may predate a change that reopened the shift)
   review: ShiftReviewSummary | null
   conflictOverride: string | null
+  // work-rule warnings (overlap, rest, long, unavailable) against the people's other shifts
+  conflicts: ShiftConflict[]
   version: number
   cancelled: boolean
 }
@@ -74,7 +81,7 @@ function fieldError(field: string, message: string) {
 }
 
 /** Shapes a stored shift for the API, with its times in the site's zone. */
-export function toShiftView(row: Shift, site: Pick<Site, 'name' | 'timezone'>, assignees: { id: number, name: string }[], review: ShiftReviewSummary | null = null): ShiftView {
+export function toShiftView(row: Shift, site: Pick<Site, 'name' | 'timezone'>, assignees: { id: number, name: string }[], review: ShiftReviewSummary | null = null, conflicts: ShiftConflict[] = []): ShiftView {
   return {
     id: row.id,
     siteId: row.siteId,
@@ -91,6 +98,7 @@ export function toShiftView(row: Shift, site: Pick<Site, 'name' | 'timezone'>, a
     reviewState: row.reviewState,
     review,
     conflictOverride: row.conflictOverride,
+    conflicts,
     version: row.version,
     cancelled: row.cancelledAt !== null
   }
@@ -180,7 +188,19 @@ export function findShiftsInRange(db: AppDatabase, query: z.infer<typeof ShiftLi
   const assignees = loadAssignees(db, rows.map(r => r.id))
   const latest = loadLatestReviews(db, rows)
   const siteById = new Map(siteRows.map(s => [s.id, s]))
-  return rows.map(row => toShiftView(row, siteById.get(row.siteId)!, assignees.get(row.id) ?? [], latest.get(row.id) ?? null))
+  const conflicts = loadShiftRowConflicts(db, rows, assignees)
+  return rows.map(row => toShiftView(row, siteById.get(row.siteId)!, assignees.get(row.id) ?? [], latest.get(row.id) ?? null, conflicts.get(row.id) ?? []))
+}
+
+/** Work-rule warnings of stored shifts, in one pass for all of them; cancelled shifts have none. */
+export function loadShiftRowConflicts(db: Pick<AppDatabase, 'select'>, rows: Shift[], assignees: Map<number, { id: number }[]>) {
+  const live = rows.filter(row => row.cancelledAt === null)
+  return computeStoredShiftConflicts(db, live.map(row => ({
+    shiftId: row.id,
+    startMs: row.startAt.getTime(),
+    endMs: row.endAt.getTime(),
+    personIds: (assignees.get(row.id) ?? []).map(a => a.id)
+  })))
 }
 
 function rangeForSite(from: string | undefined, to: string | undefined, timezone: string) {
@@ -196,5 +216,7 @@ export function findShiftView(db: AppDatabase, id: number): ShiftView | undefine
   const row = db.select().from(shifts).where(eq(shifts.id, id)).get()
   if (!row) return undefined
   const site = db.select().from(sites).where(eq(sites.id, row.siteId)).get()!
-  return toShiftView(row, site, loadAssignees(db, [id]).get(id) ?? [], loadLatestReviews(db, [row]).get(id) ?? null)
+  const assignees = loadAssignees(db, [id])
+  const conflicts = loadShiftRowConflicts(db, [row], assignees).get(id) ?? []
+  return toShiftView(row, site, assignees.get(id) ?? [], loadLatestReviews(db, [row]).get(id) ?? null, conflicts)
 }

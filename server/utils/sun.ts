@@ -135,9 +135,24 @@ export function solveRootBrent(f: (x: number) => number, a: number, b: number, f
   return b
 }
 
+/**
+ * Brent's method as above, but first tests a predicted root: f is evaluated at guess ± halfWidth and
+ * the bracket narrowed to whichever side holds the sign change, so a good prediction (within
+ * halfWidth ≤ tol / 2) settles the root in two evaluations. A poor one costs those two and no more.
+ */
+export function solveRootNearGuess(f: (x: number) => number, a: number, b: number, fa: number, fb: number, guess: number, halfWidth: number, tol: number): number {
+  const lo = guess - halfWidth
+  const hi = guess + halfWidth
+  if (!(lo > a && hi < b)) return solveRootBrent(f, a, b, fa, fb, tol)
+  const flo = f(lo)
+  if ((flo > 0) !== (fa > 0)) return solveRootBrent(f, a, lo, fa, flo, tol)
+  const fhi = f(hi)
+  if ((fhi > 0) !== (flo > 0)) return solveRootBrent(f, lo, hi, flo, fhi, tol)
+  return solveRootBrent(f, hi, b, fhi, fb, tol)
+}
+
 // The search helpers hand back their step (d, e) here rather than in a new object per iteration.
-const STEP_OUT = new Float64Array(3)
-export const SMALL = { on: process.env.SMALL === "1" }
+const STEP_OUT = new Float64Array(2)
 
 function setStep(d: number, e: number) {
   STEP_OUT[0] = d
@@ -189,7 +204,6 @@ export function minimizeBrent(f: (x: number) => number, a: number, b: number, x:
     minimizeStep(x, w, v, fx, fw, fv, a, b, xm, d, e, tol1)
     d = STEP_OUT[0]!
     e = STEP_OUT[1]!
-    if (SMALL.on && STEP_OUT[2] === 1 && Math.abs(d) < tol1) break
     const u = Math.abs(d) >= tol1 ? x + d : x + (d > 0 ? tol1 : -tol1)
     const fu = f(u)
     if (fu <= fx) {
@@ -209,7 +223,6 @@ export function minimizeBrent(f: (x: number) => number, a: number, b: number, x:
 
 // One step of Brent's minimiser: a parabola through x, w, v when it is trustworthy, else golden section.
 function minimizeStep(x: number, w: number, v: number, fx: number, fw: number, fv: number, a: number, b: number, xm: number, d: number, e: number, tol1: number) {
-  STEP_OUT[2] = 0
   if (Math.abs(e) > tol1) {
     const r = (x - w) * (fx - fv)
     let q = (x - v) * (fx - fw)
@@ -220,7 +233,6 @@ function minimizeStep(x: number, w: number, v: number, fx: number, fw: number, f
     if (Math.abs(p) < Math.abs(0.5 * q * e) && p > q * (a - x) && p < q * (b - x)) {
       const dd = p / q
       const u = x + dd
-      STEP_OUT[2] = 1
       if (u - a < 2 * tol1 || b - u < 2 * tol1) return setStep(xm - x >= 0 ? tol1 : -tol1, d)
       return setStep(dd, d)
     }

@@ -1,0 +1,87 @@
+// Light outlook benchmarks: the year chart's data for one site (target < 150 ms) and a slot search
+// over 30 days for a crew of 6 (target < 200 ms), each as the route computes it (the slot search on a
+// fresh SQLite database with the demo scenario and a busy extra roster). Prints figures; asserts nothing.
+import { mkdtempSync, rmSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join, resolve } from 'node:path'
+import { pathToFileURL } from 'node:url'
+import { applyMigrations, openDatabase, type AppDatabase } from '../server/utils/db'
+import { seedDemoScenario } from '../server/db/seed'
+import { people, shiftAssignees, shifts, sites } from '../server/db/schema'
+import { clearTimeZoneCache } from '../server/utils/light'
+import { computeYearChart } from '../server/utils/year-chart'
+import { computeRunup } from '../server/utils/runup'
+import { loadLightBoard } from '../server/utils/light-board'
+import { searchSlots } from '../server/utils/slot-search'
+import { addDaysToDate, localDateOf, localMidnightMs } from '../server/utils/zoned'
+
+const KVITFJELL = { siteId: 1, latitude: 78.2232, longitude: 15.6267, timezone: 'Arctic/Longyearbyen', year: 2027 }
+
+function measure(label: string, runs: number, target: number | null, fn: () => unknown) {
+  for (let i = 0; i < 3; i++) fn()
+  const times: number[] = []
+  for (let i = 0; i < runs; i++) {
+    const t = performance.now()
+    fn()
+    times.push(performance.now() - t)
+  }
+  times.sort((a, b) => a - b)
+  const pick = (q: number) => times[Math.min(times.length - 1, Math.floor(q * times.length))]!
+  const verdict = target === null ? '' : `  target < ${target} ms: ${pick(0.95) < target ? 'met' : 'NOT met'} (p95)`
+  console.log(`${label.padEnd(58)} median ${pick(0.5).toFixed(1).padStart(6)} ms  p95 ${pick(0.95).toFixed(1).padStart(6)} ms  max ${times[times.length - 1]!.toFixed(1).padStart(6)} ms  (${runs} runs)${verdict}`)
+}
+
+function benchYearChart() {
+  clearTimeZoneCache()
+  const t = performance.now()
+  const first = JSON.stringify(computeYearChart(KVITFJELL))
+  console.log(`year chart, 78° N, first call in a fresh process (zone tables cold): ${(performance.now() - t).toFixed(1)} ms, ${(first.length / 1024).toFixed(0)} KiB of JSON`)
+  measure('year chart data + JSON, one site (78° N, 2027)', 30, 150, () => JSON.stringify(computeYearChart(KVITFJELL)))
+  measure('run-up, one site (78° N, 190 days back + 400 ahead)', 30, null, () => computeRunup({ ...KVITFJELL, from: '2026-09-20', minCivilHours: 4 }))
+}
+
+// Six demo crew people, each with an extra shift every fourth day of the window (invented, bench only).
+function addBusyRoster(db: AppDatabase, personIds: number[], siteId: number, fromMs: number) {
+  db.transaction((tx) => {
+    for (let day = 0; day < 30; day++) {
+      personIds.forEach((personId, k) => {
+        if ((day + k) % 4 !== 0) return
+        const startMs = fromMs + day * 86_400_000 + (6 + ((day * 5 + k * 3) % 14)) * 3_600_000
+        const row = tx.insert(shifts).values({ siteId, title: `Bench roster ${day}-${k}`, startAt: new Date(startMs), endAt: new Date(startMs + 4 * 3_600_000), light: 'any' }).returning({ id: shifts.id }).get()
+        tx.insert(shiftAssignees).values({ shiftId: row.id, personId }).run()
+      })
+    }
+  })
+}
+
+function benchSlotSearch() {
+  const dir = mkdtempSync(join(tmpdir(), 'gloamline-bench-'))
+  try {
+    const db = openDatabase(join(dir, 'bench.sqlite'))
+    applyMigrations(db, resolve(import.meta.dirname, '../drizzle'))
+    const now = Date.now()
+    seedDemoScenario(db, 'bench-not-a-real-hash', now)
+    const site = db.select().from(sites).all().find(s => s.name === 'Ravnvik Pipeline Yard')!
+    const crewIds = db.select({ id: people.id, role: people.role }).from(people).all().filter(p => p.role === 'crew').slice(0, 6).map(p => p.id)
+    const from = addDaysToDate(localDateOf(now, site.timezone), 1)
+    addBusyRoster(db, crewIds, site.id, localMidnightMs(from, site.timezone))
+    const body = { siteId: site.id, durationMinutes: 180, light: 'civil' as const, from, to: addDaysToDate(from, 29), assigneeIds: crewIds, rank: 'earliest' as const, perDay: 1 }
+    const sample = searchSlots(db, body, now)
+    console.log(`slot search sample: ${sample.slots.length} slots on ${sample.daysWithSlots} of ${sample.daysSearched} days${sample.reason ? ` (${sample.reason})` : ''}`)
+    measure('slot search, 30 days, crew of 6, civil light, 3 h', 30, 200, () => searchSlots(db, body, now))
+    measure('slot search, same, any 4 of the 6, ranked by margin, 4 a day', 30, 200, () => searchSlots(db, { ...body, headcount: 4, rank: 'margin', perDay: 4 }, now))
+    measure('light board, every demo site (next-change cache warm)', 30, null, () => loadLightBoard(db, now, 4))
+    db.$client.close()
+  }
+  finally {
+    rmSync(dir, { recursive: true, force: true })
+  }
+}
+
+/** Prints the outlook figures: year chart, run-up, slot search and light board timings. */
+export async function runOutlookBench() {
+  benchYearChart()
+  benchSlotSearch()
+}
+
+if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) await runOutlookBench()

@@ -1,0 +1,7 @@
+// Cold figures for an air temperature and wind (DESIGN.md contract): wind chill, frostbite band and
+// the 4-hour work/warm-up schedule, with the cautions that go with them. Any signed-in role.
+export default defineEventHandler(async (event) => {
+  await requireRole(event)
+  const query = readQueryAs(event, ColdQuerySchema)
+  return computeColdFigures(query)
+})

@@ -1,0 +1,7 @@
+import { IdParamsSchema } from '../../utils/validation'
+
+export default defineEventHandler(async (event) => {
+  const actor = await requireRole(event, 'coordinator')
+  const { id } = readParamsAs(event, IdParamsSchema)
+  return deleteCrew(useDB(), actor.id, id)
+})

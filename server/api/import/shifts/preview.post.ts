@@ -1,0 +1,5 @@
+export default defineEventHandler(async (event) => {
+  await requireRole(event, 'coordinator')
+  const { csv } = await readBodyAs(event, ImportBodySchema)
+  return previewShiftImport(useDB(), csv)
+})

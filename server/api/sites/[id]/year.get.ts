@@ -1,0 +1,18 @@
+import { z } from 'zod'
+import { IdParamsSchema } from '../../../utils/validation'
+
+const QuerySchema = z.object({
+  // the light engine reads dates from 1901 to 2149
+  year: z.string().trim().regex(/^\d{4}$/, 'expected a year as four digits').transform(Number)
+    .pipe(z.number().int().min(1901, 'must be between 1901 and 2149').max(2149, 'must be between 1901 and 2149')).optional()
+})
+
+// The whole year's light at a site, day by day, for the year chart (the current local year by default).
+export default defineEventHandler(async (event) => {
+  await requireRole(event)
+  const { id } = readParamsAs(event, IdParamsSchema)
+  const q = readQueryAs(event, QuerySchema)
+  const site = requireSite(id)
+  const year = q.year ?? Number(localDateOf(Date.now(), site.timezone).slice(0, 4))
+  return computeYearChart({ siteId: site.id, latitude: site.latitude, longitude: site.longitude, timezone: site.timezone, year })
+})
