@@ -17,7 +17,9 @@ export default defineConfig({
           name: 'nuxt',
           include: ['tests/nuxt/**/*.test.ts'],
           environment: 'nuxt',
-          environmentOptions: { nuxt: { domEnvironment: 'happy-dom' } }
+          environmentOptions: { nuxt: { domEnvironment: 'happy-dom' } },
+          // booting the Nuxt app per file takes 5–12 s when the machine is busy (default hook limit: 10 s)
+          hookTimeout: 60_000
         }
       }),
       {

@@ -192,6 +192,20 @@ export interface SlotSearchResult {
   rules: { minRestHours: number, maxShiftHours: number }
 }
 
+/** The part of GET /api/cold the briefing shows. */
+export interface BriefingColdFigures {
+  windChill: number | null
+  frostbite: { label: string }
+  warmup: { kind: string, maxWorkMinutes: number | null, breaks: number | null, stopWork: boolean }
+  cautions: { key: string, text: string }[]
+}
+
+/** A stored forecast as GET /api/sites/:id/forecast gives it (the part the briefing shows). */
+export interface BriefingForecastReply {
+  state: 'fresh' | 'stale' | 'none'
+  latest: { source: string, fetchedAt: string, hours: { at: string, temperatureC: number | null, windKmh: number | null, gustKmh: number | null }[] } | null
+}
+
 /** The wall-clock `HH:mm` of an ISO 8601 instant written with its offset (the offset is kept as written). */
 export function formatWallTime(iso: string): string {
   return iso.slice(11, 16)
@@ -207,6 +221,14 @@ export function offsetOfIso(iso: string): string {
 export function formatOffsetLabel(iso: string): string {
   const offset = offsetOfIso(iso)
   return `UTC${offset.startsWith('-') ? '−' : '+'}${offset.slice(1)}`
+}
+
+/** `Tue 14 Jan`, or `Tue 14 Jan 2028` when the date falls in another year than `reference`. */
+export function formatDateFrom(date: string, reference: string): string {
+  const [y, m, d] = date.split('-').map(Number) as [number, number, number]
+  const weekday = ['Sun', 'Mon', 'Tue', 'Wed', 'Thu', 'Fri', 'Sat'][new Date(Date.UTC(y, m - 1, d)).getUTCDay()]
+  const month = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'][m - 1]
+  return `${weekday} ${d} ${month}${date.slice(0, 4) === reference.slice(0, 4) ? '' : ` ${y}`}`
 }
 
 /** Whole days from one local date to another (positive when `to` is later). */

@@ -103,7 +103,7 @@ export interface ImportPreview { valid: boolean, rows: ImportPreviewRow[], error
 
 export type LightStateKey = 'clear' | 'flagged' | 'approved' | 'rejected' | 'changes-requested'
 
-export interface LightState { key: LightStateKey, label: string, detail: string }
+export interface LightState { key: LightStateKey, label: string, short: string, detail: string }
 
 /** The words for a requirement: `daylight`, `civil light`, `any light`. */
 export const REQUIREMENT_WORDS: Record<LightRequirement, string> = {
@@ -141,12 +141,13 @@ export function describeLightState(shift: Pick<ShiftItem, 'lightCheck' | 'review
   const below = `${formatDuration(minutesBelow)} below ${REQUIREMENT_WORDS[requirement]}`
   if (!flagged) {
     const detail = requirement === 'any' ? 'Lit work area: no daylight needed' : `Within ${REQUIREMENT_WORDS[requirement]} throughout`
-    return { key: 'clear', label: 'Clear', detail }
+    return { key: 'clear', label: 'Clear', short: 'Clear', detail }
   }
-  if (shift.reviewState === 'approved') return { key: 'approved', label: 'Approved', detail: `${below}; approved by safety review` }
-  if (shift.reviewState === 'rejected') return { key: 'rejected', label: 'Rejected', detail: `${below}; rejected by safety review` }
-  if (shift.reviewState === 'changes-requested') return { key: 'changes-requested', label: 'Changes requested', detail: `${below}; safety review asks for changes` }
-  return { key: 'flagged', label: `Flagged: ${below}`, detail: 'Waiting for safety review' }
+  const short = formatDuration(minutesBelow)
+  if (shift.reviewState === 'approved') return { key: 'approved', label: 'Approved', short: 'Approved', detail: `${below}; approved by safety review` }
+  if (shift.reviewState === 'rejected') return { key: 'rejected', label: 'Rejected', short: 'Rejected', detail: `${below}; rejected by safety review` }
+  if (shift.reviewState === 'changes-requested') return { key: 'changes-requested', label: 'Changes requested', short: 'Changes asked', detail: `${below}; safety review asks for changes` }
+  return { key: 'flagged', label: `Flagged: ${below}`, short: `Flagged: ${short} below`, detail: 'Waiting for safety review' }
 }
 
 const WALL_RE = /^\d{4}-\d{2}-\d{2}T([01]\d|2[0-3]):[0-5]\d$/

@@ -8,8 +8,6 @@ import { findShiftConflicts, type BlockedSpan, type ConflictCandidate, type Neig
 import { loadWorkRules } from './work-rules'
 
 const HOUR_MS = 3_600_000
-// a stored shift lasts at most 7 days (MAX_SHIFT_MS in shifts.ts): how far back a neighbour may start
-const LONGEST_SHIFT_MS = 7 * 24 * HOUR_MS
 
 type Reader = Pick<AppDatabase, 'select'>
 
@@ -18,6 +16,8 @@ export interface LoadedConflictContext {
   byPerson: Map<number, NeighbourShift[]>
   blockedByPerson: Map<number, BlockedSpan[]>
   personNames: Map<number, string>
+  // the longest loaded neighbour: how far before a shift a neighbour that reaches it may start
+  longestMs: number
 }
 
 function groupByPerson<T extends { personId: number }>(rows: T[]) {
@@ -47,6 +47,12 @@ function loadBlockedSpans(db: Reader, personIds: number[], fromMs: number, toMs:
     .map(r => ({ personId: r.personId, startMs: r.startAt.getTime(), endMs: r.endAt.getTime(), reason: r.reason }))
 }
 
+function findLongestSpan(list: NeighbourShift[]) {
+  let longest = 0
+  for (const n of list) if (n.endMs - n.startMs > longest) longest = n.endMs - n.startMs
+  return longest
+}
+
 // loops rather than Math.min(...list): an import may bring 10,000 candidates
 function spanOf(candidates: ConflictCandidate[]) {
   let fromMs = Infinity
@@ -61,14 +67,16 @@ function spanOf(candidates: ConflictCandidate[]) {
 /** Everything the conflict check needs for these candidates, in three queries whatever their number. */
 export function loadConflictContext(db: Reader, candidates: ConflictCandidate[], rules: WorkRules = loadWorkRules(db)): LoadedConflictContext {
   const personIds = [...new Set(candidates.flatMap(c => c.personIds))]
-  const empty = { rules, byPerson: new Map(), blockedByPerson: new Map(), personNames: new Map() }
+  const empty = { rules, byPerson: new Map(), blockedByPerson: new Map(), personNames: new Map(), longestMs: 0 }
   if (!personIds.length || !candidates.length) return empty
   const padMs = rules.minRestHours * HOUR_MS
   const { fromMs, toMs } = spanOf(candidates)
   const names = db.select({ id: people.id, name: people.name }).from(people).where(inArray(people.id, personIds)).all()
+  const neighbours = loadNeighbours(db, personIds, fromMs - padMs, toMs + padMs)
   return {
     rules,
-    byPerson: groupByPerson(loadNeighbours(db, personIds, fromMs - padMs, toMs + padMs)),
+    longestMs: findLongestSpan(neighbours),
+    byPerson: groupByPerson(neighbours),
     blockedByPerson: groupByPerson(loadBlockedSpans(db, personIds, fromMs, toMs)),
     personNames: new Map(names.map(p => [p.id, p.name]))
   }
@@ -80,7 +88,7 @@ export function addConflictNeighbours(loaded: LoadedConflictContext, extra: Neig
   for (const [personId, list] of groupByPerson(extra)) {
     byPerson.set(personId, [...(byPerson.get(personId) ?? []), ...list].sort((a, b) => a.startMs - b.startMs))
   }
-  return { ...loaded, byPerson }
+  return { ...loaded, byPerson, longestMs: Math.max(loaded.longestMs, findLongestSpan(extra)) }
 }
 
 // First index of a start-sorted list whose start is at or after the given instant.
@@ -101,7 +109,7 @@ function nearbyShifts(loaded: LoadedConflictContext, candidate: ConflictCandidat
   for (const personId of new Set(candidate.personIds)) {
     const list = loaded.byPerson.get(personId) ?? []
     const end = candidate.endMs + padMs
-    for (let i = lowerBound(list, candidate.startMs - padMs - LONGEST_SHIFT_MS); i < list.length && list[i]!.startMs < end; i++) {
+    for (let i = lowerBound(list, candidate.startMs - padMs - loaded.longestMs); i < list.length && list[i]!.startMs < end; i++) {
       near.push(list[i]!)
     }
   }

@@ -111,30 +111,29 @@ function describeRest(candidate: ConflictCandidate, other: NeighbourShift, who: 
   return `${who} has only ${describeDuration(gapMs)} of rest between this shift and “${other.title}” at ${other.siteName}: ${rule}`
 }
 
-function findNeighbourConflicts(candidate: ConflictCandidate, personId: number, who: string, others: NeighbourShift[], rules: WorkRules): ShiftConflict[] {
-  const found: ShiftConflict[] = []
+interface Assignee { personId: number, personName: string | null, who: string }
+
+function findNeighbourConflicts(candidate: ConflictCandidate, person: Assignee, others: NeighbourShift[], rules: WorkRules, found: ShiftConflict[]) {
+  const { personId, personName, who } = person
   const seen = new Set<number>()
   for (const other of others) {
     if (other.personId !== personId || other.shiftId === candidate.shiftId || seen.has(other.shiftId)) continue
     seen.add(other.shiftId)
-    const base = { personId, personName: who, otherShiftId: other.shiftId }
+    const base = { personId, personName, otherShiftId: other.shiftId }
     if (overlaps(candidate, other)) {
       found.push({ ...base, kind: 'overlap', message: `${who} is also on “${other.title}” at ${other.siteName} at the same time` })
     } else if (isRestTooShort(candidate, other, rules.minRestHours)) {
       found.push({ ...base, kind: 'rest', message: describeRest(candidate, other, who, rules.minRestHours) })
     }
   }
-  return found
 }
 
-function findBlockedConflicts(candidate: ConflictCandidate, personId: number, who: string, spans: BlockedSpan[]): ShiftConflict[] {
-  return spans.filter(span => span.personId === personId && overlaps(candidate, span)).map(span => ({
-    kind: 'unavailable' as const,
-    personId,
-    personName: who,
-    otherShiftId: null,
-    message: `${who} is unavailable during this shift${span.reason ? ` (${span.reason})` : ''}`
-  }))
+function findBlockedConflicts(candidate: ConflictCandidate, person: Assignee, spans: BlockedSpan[], found: ShiftConflict[]) {
+  for (const span of spans) {
+    if (span.personId !== person.personId || !overlaps(candidate, span)) continue
+    const reason = span.reason ? ` (${span.reason})` : ''
+    found.push({ kind: 'unavailable', personId: person.personId, personName: person.personName, otherShiftId: null, message: `${person.who} is unavailable during this shift${reason}` })
+  }
 }
 
 /** Every work-rule warning for a shift and its assignees, given their other shifts and blocked spans. */
@@ -143,13 +142,10 @@ export function findShiftConflicts(candidate: ConflictCandidate, context: Confli
   const long = findLongShiftConflict(candidate, rules)
   if (long) conflicts.push(long)
   for (const personId of new Set(candidate.personIds)) {
-    const name = nameOf(context.personNames, personId)
-    const who = name ?? `Person #${personId}`
-    const found = [
-      ...findNeighbourConflicts(candidate, personId, who, context.otherShifts, rules),
-      ...findBlockedConflicts(candidate, personId, who, context.unavailable)
-    ]
-    conflicts.push(...found.map(c => ({ ...c, personName: name })))
+    const personName = nameOf(context.personNames, personId)
+    const person = { personId, personName, who: personName ?? `Person #${personId}` }
+    findNeighbourConflicts(candidate, person, context.otherShifts, rules, conflicts)
+    findBlockedConflicts(candidate, person, context.unavailable, conflicts)
   }
   return conflicts
 }

@@ -67,6 +67,9 @@ export interface CrewShift {
   start: string
   end: string
   span: string
+  /** The span's clock times and its zone offset separately, for big type on the home screen. */
+  timeText: string
+  offsetText: string
   requirement: LightRequirement
   requirementWords: string
   minutesBelow: number
@@ -76,6 +79,8 @@ export interface CrewShift {
   profileText: string
   reviewState: Shift['reviewState']
   reviewWords: string
+  /** A decision was recorded but the shift changed after it. */
+  reviewChanged: boolean
   reviewNote: string
   mitigations: string[]
   crewmates: string[]
@@ -127,7 +132,7 @@ export function describeDayStatus(status: CrewLightDay['status'], civilLightMinu
   if (status === 'rises-and-sets') return 'The sun rises and sets'
   return civilLightMinutes > 0
     ? `Polar night: the sun stays below the horizon all day; civil twilight for ${formatDuration(civilLightMinutes)} around noon`
-    : 'Polar night: the sun stays below the horizon and there is no civil light at all today'
+    : 'Polar night: the sun stays below the horizon, and there is no civil light at all'
 }
 
 function momentsValue(moments: CrewMoment[], empty: string): string {
@@ -138,7 +143,7 @@ function momentsValue(moments: CrewMoment[], empty: string): string {
 function describeMissing(kind: 'sun' | 'civil', day: Omit<CrewLightDay, 'rows'>): string {
   if (kind === 'sun' && day.status === 'polar-night') return 'none: polar night'
   if (kind === 'sun' && day.status === 'midnight-sun') return 'none: the sun is up all day'
-  if (kind === 'civil' && day.civilLightMinutes === 0) return 'none: no civil light today'
+  if (kind === 'civil' && day.civilLightMinutes === 0) return 'none: no civil light'
   if (kind === 'civil' && day.periods.every(p => p.kind === 'day' || p.kind === 'civil')) return 'none: civil light all day'
   return 'none on this date'
 }
@@ -205,13 +210,19 @@ export function summariseCrewLightDays(site: Pick<Site, 'latitude' | 'longitude'
   })
 }
 
-/** `08:00–14:00 UTC+01:00`, with the end's date when it falls on another local day, and both offsets across a clock change. */
-export function describeCrewSpan(startMs: number, endMs: number, zone: string): string {
+/** A shift's clock times (`08:00–14:00`, the end's date added when it falls on another local day) and offset (both across a clock change). */
+export function splitCrewSpan(startMs: number, endMs: number, zone: string): { timeText: string, offsetText: string } {
   const sameDay = localDateIn(startMs, zone) === localDateIn(endMs, zone)
   const end = sameDay ? formatLocalTime(endMs, zone) : `${formatDate(localDateIn(endMs, zone))} ${formatLocalTime(endMs, zone)}`
   const a = formatUtcOffset(startMs, zone)
   const b = formatUtcOffset(endMs, zone)
-  return `${formatLocalTime(startMs, zone)}–${end} ${a === b ? a : `${a} → ${b} (clocks change)`}`
+  return { timeText: `${formatLocalTime(startMs, zone)}–${end}`, offsetText: a === b ? a : `${a} → ${b} (clocks change)` }
+}
+
+/** `08:00–14:00 UTC+01:00`, with the end's date when it falls on another local day, and both offsets across a clock change. */
+export function describeCrewSpan(startMs: number, endMs: number, zone: string): string {
+  const { timeText, offsetText } = splitCrewSpan(startMs, endMs, zone)
+  return `${timeText} ${offsetText}`
 }
 
 function describeLightState(requirement: LightRequirement, minutesBelow: number, darkMinutes: number): string {
@@ -318,12 +329,13 @@ export function describeCrewShift(input: ShiftDescriptionInput): CrewShift {
   const alone = input.assignees.length === 1
   return {
     id: row.id, siteId: row.siteId, title: row.title,
-    start: formatZonedIso(startMs, zone), end: formatZonedIso(endMs, zone), span: describeCrewSpan(startMs, endMs, zone),
+    start: formatZonedIso(startMs, zone), end: formatZonedIso(endMs, zone), span: describeCrewSpan(startMs, endMs, zone), ...splitCrewSpan(startMs, endMs, zone),
     requirement: row.light, requirementWords: REQUIREMENT_WORDS[row.light],
     minutesBelow: row.minutesBelow, flagged: row.flagged,
     lightState: describeLightState(row.light, row.minutesBelow, bandMinutes.dark),
     bandMinutes, profileText: describeProfile(bandMinutes),
     reviewState: row.reviewState, reviewWords: describeReviewWords(row.reviewState, input.review),
+    reviewChanged: row.reviewState === 'pending' && input.review !== null && !input.review.current,
     reviewNote: input.review?.current ? input.review.note : '',
     mitigations: input.review?.current ? input.review.mitigations.map(describeMitigation) : [],
     crewmates: input.assignees.filter(a => a.id !== input.personId).map(a => a.name),

@@ -1,7 +1,8 @@
 // The light engine: splits the local days of a site into the bands of DESIGN.md ("The light model")
-// from suncalc's position function, by sampling the geometric altitude on a UTC grid, locating every
-// daily highest and lowest point (Brent minimisation) and refining every threshold crossing with
-// Brent's method to under a second. Pure TypeScript: no framework imports.
+// using suncalc's position function only. It samples the altitude on one UTC grid over the whole
+// range, refines every highest and lowest point (Brent minimisation), finds every threshold crossing
+// on the monotone pieces between them (Brent's method, to under a second), then cuts the result at
+// the local midnights of the site's IANA zone. Pure TypeScript: no framework imports.
 import {
   BAND_KINDS_ASCENDING,
   BAND_THRESHOLDS_ASCENDING_DEG,
@@ -24,7 +25,6 @@ import {
   sampleSunAltitude,
   sampleSunApparentAltitude,
   sampleSunPosition,
-  solveRootBrent,
   solveRootNearGuess
 } from './sun'
 
@@ -65,10 +65,14 @@ interface TraceExtremum {
 }
 
 interface SunTrace {
-  /** Band index (0 night … 4 day) at the first grid point, before every crossing. */
+  /** Band index (0 night … 4 day) at fromMs, sampled directly. */
   startBand: number
+  /** Crossings in time order; a few just before fromMs may be included. */
   crossings: TraceCrossing[]
   extrema: TraceExtremum[]
+  /** Grid samples and refined extrema in time order (apparent altitude): monotone between neighbours over [fromMs, toMs]. */
+  times: Float64Array
+  alts: Float64Array
 }
 
 export interface LightDaysInput {
@@ -165,15 +169,15 @@ function confirmPredictedExtremum(f: (ms: number) => number, guess: number, lo: 
   return { x: guess + offset * EXTREMUM_PROBE_MS, fx: fm - 0.25 * (fl - fr) * offset }
 }
 
-// Refines every local extreme of the samples to the true highest or lowest point near it.
-function refineExtrema(firstMs: number, values: Float64Array): { ms: number, apparent: number, isMax: boolean }[] {
+// Refines every local extreme of the samples near [fromMs, toMs] to the true highest or lowest point.
+function refineExtrema(firstMs: number, values: Float64Array, fromMs: number, toMs: number): { ms: number, apparent: number, isMax: boolean }[] {
   const extrema: { ms: number, apparent: number, isMax: boolean }[] = []
   for (let i = 1; i < values.length - 1; i++) {
     const v = values[i]!
     const isMax = v > values[i - 1]! && v >= values[i + 1]!
     const isMin = v < values[i - 1]! && v <= values[i + 1]!
-    if (!isMax && !isMin) continue
     const t = firstMs + i * GRID_STEP_MS
+    if ((!isMax && !isMin) || t + GRID_STEP_MS <= fromMs || t - GRID_STEP_MS >= toMs) continue
     const sign = isMax ? -1 : 1
     const f = isMax ? searchNegatedAltitude : searchAltitude
     const slot = isMax ? 1 : 0
@@ -235,7 +239,10 @@ function findCrossingsBetween(t0: number, a0: number, t1: number, a1: number, ou
   }
 }
 
-/** Samples and searches the sun over [fromMs, toMs] (plus a margin), returning every crossing and extremum. */
+/**
+ * Samples and searches the sun over [fromMs, toMs]: every crossing and extremum inside it. The grid
+ * runs two steps past each end so that an extremum near an end still shows among the samples.
+ */
 function traceSun(latitude: number, longitude: number, fromMs: number, toMs: number): SunTrace {
   SEARCH.latitude = latitude
   SEARCH.longitude = longitude
@@ -245,12 +252,16 @@ function traceSun(latitude: number, longitude: number, fromMs: number, toMs: num
   const lastMs = Math.ceil(toMs / GRID_STEP_MS) * GRID_STEP_MS + 2 * GRID_STEP_MS
   const count = Math.round((lastMs - firstMs) / GRID_STEP_MS) + 1
   const values = sampleGrid(firstMs, count)
-  const found = refineExtrema(firstMs, values)
+  const found = refineExtrema(firstMs, values, fromMs, toMs)
   const { times, alts } = mergeSamples(firstMs, values, found)
   const crossings: TraceCrossing[] = []
-  for (let k = 1; k < times.length; k++) findCrossingsBetween(times[k - 1]!, alts[k - 1]!, times[k]!, alts[k]!, crossings)
+  for (let k = 1; k < times.length; k++) {
+    // Only pieces that overlap the range: outside it the extrema were not refined.
+    if (times[k]! <= fromMs || times[k - 1]! >= toMs) continue
+    findCrossingsBetween(times[k - 1]!, alts[k - 1]!, times[k]!, alts[k]!, crossings)
+  }
   const extrema = found.map(x => ({ ms: x.ms, altitude: convertApparentToGeometric(x.apparent), isMax: x.isMax }))
-  return { startBand: bandIndexOfApparent(values[0]!), crossings, extrema }
+  return { startBand: bandIndexOfApparent(searchAltitude(fromMs)), crossings, extrema, times, alts }
 }
 
 // Appends a band from atMs to endMs. The last period always runs to endMs; a crossing at its very start
@@ -297,7 +308,8 @@ export function computeLightPeriodsInRange(latitude: number, longitude: number, 
 // Time zones. Offsets come from Intl (the IANA database bundled with Node). Intl is slow (~2 µs a
 // call), so each zone's offset changes are found once per UTC month — one probe a day, then a bisection
 // to the second where the offset differs — and cached; local midnights and ISO strings are then pure
-// arithmetic. (Assumes a zone never changes its offset twice within 24 h, true of the tz data.)
+// arithmetic. A zone that changed its offset twice within 24 h would be seen as one change or none;
+// we know of no such case in the tz data for the years accepted here (1901–2149).
 
 interface ZoneMonth {
   startOffsetMs: number
@@ -512,23 +524,56 @@ function roundTo(value: number, places: number): number {
   return Math.round(value * f) / f
 }
 
-// Highest and lowest altitude of [startMs, endMs): the refined extremes inside it, or an end point.
-function summarizeAltitudes(trace: SunTrace, cursor: DayCursor, startMs: number, endMs: number, startAlt: number, endAlt: number) {
-  let maxAlt = startAlt
-  let maxMs = startMs
-  let minAlt = Math.min(startAlt, endAlt)
-  if (endAlt > maxAlt) {
-    maxAlt = endAlt
-    maxMs = endMs - 1000 // the sun is still climbing at midnight: report the day's last second
+// A local midnight with the range its altitude must lie in (from the monotone samples around it),
+// sampled exactly only when that range says it could be the day's highest or lowest point.
+interface DayBoundary {
+  ms: number
+  low: number
+  high: number
+  exact: number
+}
+
+function describeBoundaries(trace: SunTrace, bounds: Float64Array): DayBoundary[] {
+  const { times, alts } = trace
+  const out: DayBoundary[] = []
+  let k = 1
+  for (const ms of bounds) {
+    while (k < times.length - 1 && times[k]! < ms) k++
+    const a = convertApparentToGeometric(alts[k - 1]!)
+    const b = convertApparentToGeometric(alts[k]!)
+    out.push({ ms, low: Math.min(a, b), high: Math.max(a, b), exact: NaN })
   }
-  while (cursor.extremum < trace.extrema.length && trace.extrema[cursor.extremum]!.ms < startMs) cursor.extremum++
-  for (let i = cursor.extremum; i < trace.extrema.length && trace.extrema[i]!.ms < endMs; i++) {
+  return out
+}
+
+function sampleBoundary(boundary: DayBoundary, latitude: number, longitude: number): number {
+  if (Number.isNaN(boundary.exact)) boundary.exact = sampleSunAltitude(boundary.ms, latitude, longitude)
+  return boundary.exact
+}
+
+// Highest and lowest altitude of a day: the refined extremes inside it, or one of its ends.
+function summarizeAltitudes(trace: SunTrace, cursor: DayCursor, start: DayBoundary, end: DayBoundary, latitude: number, longitude: number) {
+  let maxAlt = -Infinity
+  let maxMs = start.ms
+  let minAlt = Infinity
+  while (cursor.extremum < trace.extrema.length && trace.extrema[cursor.extremum]!.ms < start.ms) cursor.extremum++
+  for (let i = cursor.extremum; i < trace.extrema.length && trace.extrema[i]!.ms < end.ms; i++) {
     const x = trace.extrema[i]!
     if (x.altitude > maxAlt) {
       maxAlt = x.altitude
       maxMs = Math.round(x.ms / 1000) * 1000
     }
     if (x.altitude < minAlt) minAlt = x.altitude
+  }
+  for (const boundary of [start, end]) {
+    if (boundary.high <= maxAlt && boundary.low >= minAlt) continue
+    const h = sampleBoundary(boundary, latitude, longitude)
+    if (h > maxAlt) {
+      maxAlt = h
+      // Still climbing at midnight (near the poles): the day's last second stands for its end.
+      maxMs = boundary === end ? end.ms - 1000 : start.ms
+    }
+    minAlt = Math.min(minAlt, h)
   }
   return { maxAlt, maxMs, minAlt }
 }
@@ -540,9 +585,10 @@ function classifyDay(periods: LightPeriodMs[]): { status: DayStatus, dayMs: numb
     if (p.kind === 'day') dayMs += p.endMs - p.startMs
     if (p.kind === 'day' || p.kind === 'civil') civilMs += p.endMs - p.startMs
   }
-  const status: DayStatus = periods.length === 1 && periods[0]!.kind === 'day'
-    ? 'midnight-sun'
-    : dayMs === 0 ? 'polar-night' : 'rises-and-sets'
+  // A skipped date (no time at all) has no day in it, so it counts as polar night, never midnight sun.
+  const status: DayStatus = dayMs === 0
+    ? 'polar-night'
+    : periods.length === 1 ? 'midnight-sun' : 'rises-and-sets'
   return { status, dayMs, civilMs }
 }
 
@@ -564,6 +610,8 @@ function cutDay(trace: SunTrace, cursor: DayCursor, startMs: number, endMs: numb
     cursor.band = bandAfterCrossing(crossing)
     if (crossing.ms === startMs) events.push(toSunEvent(crossing))
   }
+  // A date the zone skipped altogether (Pacific/Apia, 2011-12-30) keeps one empty period, so that
+  // every day still has a first start and a last end.
   const periods: LightPeriodMs[] = [{ kind: BAND_KINDS_ASCENDING[cursor.band]!, startMs, endMs }]
   for (; cursor.crossing < crossings.length && crossings[cursor.crossing]!.ms < endMs; cursor.crossing++) {
     const crossing = crossings[cursor.crossing]!
@@ -590,19 +638,16 @@ function computeDaysWithTimeline(input: LightDaysInput, maxDays: number) {
   const { latitude, longitude, fromWall, dayCount } = validateDaysInput(input, maxDays)
   const timeline = buildZoneTimeline(input.timezone, fromWall - 2 * DAY_MS, fromWall + (dayCount + 2) * DAY_MS)
   const bounds = new Float64Array(dayCount + 1)
-  const boundAlts = new Float64Array(dayCount + 1)
-  for (let j = 0; j <= dayCount; j++) {
-    bounds[j] = findZoneWallInstant(timeline, fromWall + j * DAY_MS)
-    boundAlts[j] = sampleSunAltitude(bounds[j]!, latitude, longitude)
-  }
+  for (let j = 0; j <= dayCount; j++) bounds[j] = findZoneWallInstant(timeline, fromWall + j * DAY_MS)
   const trace = traceSun(latitude, longitude, bounds[0]!, bounds[dayCount]!)
+  const boundaries = describeBoundaries(trace, bounds)
   const cursor: DayCursor = { band: trace.startBand, crossing: 0, extremum: 0 }
   const days: LightDayMs[] = []
   for (let j = 0; j < dayCount; j++) {
     const startMs = bounds[j]!
     const endMs = bounds[j + 1]!
     const { periods, events } = cutDay(trace, cursor, startMs, endMs)
-    const { maxAlt, maxMs, minAlt } = summarizeAltitudes(trace, cursor, startMs, endMs, boundAlts[j]!, boundAlts[j + 1]!)
+    const { maxAlt, maxMs, minAlt } = summarizeAltitudes(trace, cursor, boundaries[j]!, boundaries[j + 1]!, latitude, longitude)
     const { status, dayMs, civilMs } = classifyDay(periods)
     days.push({
       date: formatUtcDate(fromWall + j * DAY_MS), startMs, endMs, periods, events, solarNoonMs: maxMs,

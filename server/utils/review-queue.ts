@@ -209,10 +209,10 @@ function collectColdCautions(weather: WindowWeather, timezone: string): ReviewCa
   const figures = weather.figures
   const out: ReviewCaution[] = []
   if (figures?.warmup.stopWork) {
-    out.push({ key: 'stop-work', tone: 'stop', general: false, title: 'Non-emergency work should stop in the coldest hour', figure: describeWarmupFigure(figures.warmup, timezone), text: 'At this air temperature and wind the 4-hour work/warm-up schedule (ACGIH, moderate to heavy work) lists no work period: only emergency work should go ahead.' })
+    out.push({ key: 'stop-work', tone: 'stop', general: false, title: 'Non-emergency work should stop at the forecast cold and wind', figure: describeWarmupFigure(figures.warmup, timezone), text: 'At this air temperature and wind the 4-hour work/warm-up schedule (ACGIH, moderate to heavy work) lists no work period: only emergency work should go ahead.' })
   }
   else if (figures?.warmupLightWork.stopWork) {
-    out.push({ key: 'stop-work-light', tone: 'caution', general: false, title: 'Light work or little movement: the schedule says stop', figure: describeWarmupFigure(figures.warmup, timezone), text: 'For light work or standing still the schedule uses the next colder row, which lists no work period at the coldest hour.' })
+    out.push({ key: 'stop-work-light', tone: 'caution', general: false, title: 'Light work or little movement: the schedule says stop at the worst hour', figure: describeWarmupFigure(figures.warmup, timezone), text: 'For light work or standing still the schedule uses the next colder row, which lists no work period at the coldest hour.' })
   }
   if (figures && FREEZING_BANDS.includes(figures.frostbite.key)) {
     const chill = figures.worstWindChill ? `Wind chill ${formatSigned(figures.worstWindChill.roundedC)}` : `Air ${formatSigned(figures.coldestTemperatureC)} °C`
@@ -251,7 +251,7 @@ function collectDarkCautions(minutesBelow: number, requirement: LightRequirement
     figure,
     // USNO: beyond civil twilight, outdoor work normally needs artificial light; AMS and OSHA 29 CFR 1926.56:
     // natural light falls below the construction minimum well before civil dusk.
-    text: 'Past civil dusk, outdoor work normally needs artificial light; even in civil twilight natural light is far below what task work needs. Plan area and task lighting, and make sure people can see hazards and each other.'
+    text: 'Before civil dawn and after civil dusk, outdoor work normally needs artificial light; even in civil twilight natural light is far below what task work needs. Plan area and task lighting, and make sure people can see hazards and each other.'
   }]
 }
 

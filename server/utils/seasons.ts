@@ -1,6 +1,6 @@
 // The light seasons of a site: stretches of midnight sun, polar night and days without civil light,
-// the solstices and equinoxes, and the next seasonal changes after a date. Built on the light engine;
-// pure TypeScript, no framework imports.
+// the solstices and equinoxes, and the next seasonal changes after a date. Built on the light engine.
+// Pure TypeScript, no framework imports.
 import {
   DEFAULT_MIN_CIVIL_HOURS,
   type LightDayMs,

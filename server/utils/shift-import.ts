@@ -13,13 +13,18 @@ import { readCsvTable, writeCsvText, type CsvRow } from './import-csv'
 import { announceShiftChange } from './shift-notices'
 import { MAX_SHIFT_MS } from './shifts'
 import { initialReviewState } from './shift-writes'
-import { addDaysToDate, formatZonedIso, localDateOf, resolveLocalOrInstant } from './zoned'
+import { addDaysToDate, localDateOf, resolveLocalOrInstant } from './zoned'
+import { formatSiteInstant, resolveWallTimeOnce } from './instant-format'
 import { InstantSchema } from './validation'
 
 export const SHIFT_IMPORT_COLUMNS = ['site', 'title', 'start', 'end', 'light', 'assignees', 'notes']
 const REQUIRED_COLUMNS = ['site', 'title', 'start', 'end', 'light', 'assignees']
 const LOCAL_TIME_RE = /^(\d{4})-(\d{2})-(\d{2})[ T](\d{2}):(\d{2})(?::(\d{2}))?$/
 const INSERT_CHUNK = 400
+// Up to this many imported shifts are announced one by one, as the form would (safety officers hear
+// of flagged work). A bigger roster would send a mail per flagged shift: it is left to the review
+// queue, and the reply says no notices went out.
+export const IMPORT_NOTICE_LIMIT = 200
 
 export interface ImportedShift {
   siteId: number
@@ -80,7 +85,11 @@ export function readImportTime(value: string, field: string, timezone: string | 
   if (local) {
     if (!isRealLocalTime(local)) return { error: `${field}: no such date or time “${value}”` }
     if (!timezone) return {}
-    const resolved = resolveLocalOrInstant(`${local[1]}-${local[2]}-${local[3]}T${local[4]}:${local[5]}`, timezone)
+    const wall = `${local[1]}-${local[2]}-${local[3]}T${local[4]}:${local[5]}`
+    // the quick path answers times that happen once; gaps and overlaps take the shift rule and its note
+    const once = resolveWallTimeOnce(`${wall}:00`, timezone)
+    if (once !== null) return { ms: once }
+    const resolved = resolveLocalOrInstant(wall, timezone)
     return { ms: resolved.ms, note: resolved.note }
   }
   if (InstantSchema.safeParse(value).success) return { ms: Date.parse(value) }
@@ -169,7 +178,7 @@ function parseShiftRow(row: CsvRow, lookups: Lookups): ParsedRow {
   const assigneeIds = readAssignees(row.cells.get('assignees') ?? '', lookups, errors)
   const preview: ShiftImportRow = { row: row.row, ok: errors.length === 0, errors }
   if (preview.ok && site && light && startMs !== undefined && endMs !== undefined) {
-    preview.shift = { siteId: site.id, siteName: site.name, title, start: formatZonedIso(startMs, site.timezone), end: formatZonedIso(endMs, site.timezone), light, assigneeIds, notes }
+    preview.shift = { siteId: site.id, siteName: site.name, title, start: formatSiteInstant(startMs, site.timezone), end: formatSiteInstant(endMs, site.timezone), light, assigneeIds, notes }
     preview.timeNotes = timeNotes
   }
   return { preview, site, startMs, endMs }
@@ -274,9 +283,11 @@ export function importShiftsFromCsv(db: AppDatabase, actorId: number, csv: strin
     }
     const ids = insertImportedShifts(tx, actorId, preview.rows)
     const flagged = preview.rows.filter(r => r.lightCheck!.flagged).length
-    recordAudit(tx, actorId, 'shift.import', 'shift', null, { created: ids.length, flagged, ids })
-    return { created: ids.length, ids }
+    recordAudit(tx, actorId, 'shift.import', 'shift', null, { created: ids.length, flagged, ids, notified: ids.length <= IMPORT_NOTICE_LIMIT })
+    return { created: ids.length, ids, notified: ids.length <= IMPORT_NOTICE_LIMIT }
   })
-  for (const id of result.ids) announceShiftChange({ kind: 'created', shiftId: id, actorId, previousAssigneeIds: [], material: true })
+  if (result.notified) {
+    for (const id of result.ids) announceShiftChange({ kind: 'created', shiftId: id, actorId, previousAssigneeIds: [], material: true })
+  }
   return result
 }

@@ -207,7 +207,10 @@ export function describeWindowWeather(
     const label = forecast.state === 'stale' ? `Forecast stale, fetched at ${when}` : `Forecast fetched at ${when} from ${forecast.latest!.source}`
     return { basis: 'forecast', label: label + failedNote, forecast: forecastInfo, observations: observationsInfo, figures: summariseColdForWindow(samples, bands, timezone) }
   }
-  const gap = forecastInfo.state === 'not-covered' ? 'No forecast for these hours' : 'No forecast'
+  const lastHour = forecast.latest?.hours.at(-1)?.at
+  const gap = forecastInfo.state === 'not-covered'
+    ? `No forecast for these hours${lastHour ? ` (the forecast runs to ${describeFetchTime(lastHour, timezone)})` : ''}`
+    : 'No forecast'
   if (inWindow.length) {
     const readingSamples = inWindow.map(r => ({ atMs: Date.parse(r.at), temperatureC: r.temperatureC, windKmh: r.windKmh, gustKmh: null }))
     const label = `${gap}; ${inWindow.length} site reading${inWindow.length === 1 ? '' : 's'} from ${describeFetchTime(inWindow[0]!.at, timezone)}`

@@ -116,10 +116,20 @@ export function solveRootBrent(f: (x: number) => number, a: number, b: number, f
   let e = d
   for (let iter = 0; iter < maxIter; iter++) {
     if ((fb > 0) === (fc > 0)) {
-      c = a; fc = fa; d = b - a; e = d
+      // The root is between a and b: c becomes the far end of the bracket again.
+      c = a
+      fc = fa
+      d = b - a
+      e = d
     }
     if (Math.abs(fc) < Math.abs(fb)) {
-      a = b; b = c; c = a; fa = fb; fb = fc; fc = fa
+      // Keep b the better estimate: rotate (a, b, c) to (b, c, b).
+      a = b
+      b = c
+      c = a
+      fa = fb
+      fb = fc
+      fc = fa
     }
     const tol1 = 4e-16 * Math.abs(b) + 0.5 * tol
     const xm = 0.5 * (c - b)
@@ -207,15 +217,27 @@ export function minimizeBrent(f: (x: number) => number, a: number, b: number, x:
     const u = Math.abs(d) >= tol1 ? x + d : x + (d > 0 ? tol1 : -tol1)
     const fu = f(u)
     if (fu <= fx) {
-      if (u >= x) a = x; else b = x
-      v = w; fv = fw; w = x; fw = fx; x = u; fx = fu
-    } else {
-      if (u < x) a = u; else b = u
-      if (fu <= fw || w === x) {
-        v = w; fv = fw; w = u; fw = fu
-      } else if (fu <= fv || v === x || v === w) {
-        v = u; fv = fu
-      }
+      // u is the new best: the bracket shrinks to the side of x that holds u.
+      if (u >= x) a = x
+      else b = x
+      v = w
+      fv = fw
+      w = x
+      fw = fx
+      x = u
+      fx = fu
+      continue
+    }
+    if (u < x) a = u
+    else b = u
+    if (fu <= fw || w === x) {
+      v = w
+      fv = fw
+      w = u
+      fw = fu
+    } else if (fu <= fv || v === x || v === w) {
+      v = u
+      fv = fu
     }
   }
   return { x, fx }

@@ -37,6 +37,8 @@ describe('safety review in the browser', () => {
 
     await card.getByRole('link', { name: /Review Ridge beacon check/ }).click()
     await page.waitForURL(new RegExp(`/review/${shiftId}$`))
+    // client-side navigation: wait for the shift's own page, not just its address
+    await page.getByTestId('decision-form').waitFor()
     const cautions = page.getByTestId('caution-list')
     expect(await cautions.textContent()).toContain('Signs of hypothermia')
     expect(await cautions.textContent()).toContain('a competent supervisor decide')

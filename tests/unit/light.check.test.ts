@@ -16,7 +16,7 @@ const SHIFTS: Shift[] = [
   { name: 'over the spring-forward night at 69.65°N', latitude: 69.65, longitude: 18.96, start: '2026-03-29T00:30:00+01:00', end: '2026-03-29T08:00:00+02:00' },
   { name: 'over the fall-back night at 78.22°N', latitude: 78.22, longitude: 15.65, start: '2026-10-25T01:30:00+02:00', end: '2026-10-25T09:00:00+01:00' },
   { name: 'across local midnight at 69°N', latitude: 69, longitude: 23.3, start: '2026-09-10T21:00:00+02:00', end: '2026-09-11T05:00:00+02:00' },
-  { name: 'across local midnight at 78°N', latitude: 78, longitude: 15.6, start: '2026-03-12T20:00:00+01:00', end: '2026-03-13T04:00:00+01:00' },
+  { name: 'across local midnight at 78°N', latitude: 78, longitude: 15.6, start: '2026-03-25T18:00:00+01:00', end: '2026-03-26T02:00:00+01:00' },
   { name: 'across local midnight at 78°S', latitude: -78, longitude: 166.7, start: '2026-03-01T22:00:00+13:00', end: '2026-03-02T06:00:00+13:00' },
   { name: 'a 12-hour shift at 78°S in April', latitude: -78, longitude: 166.7, start: '2026-04-20T06:00:00+12:00', end: '2026-04-20T18:00:00+12:00' }
 ]

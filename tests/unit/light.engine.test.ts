@@ -44,6 +44,7 @@ function findPartitionProblems(day: LightDayMs, startMs: number, endMs: number):
     if (!BAND_KINDS.includes(p.kind)) note(`unknown kind ${p.kind}`)
     if (i > 0 && p.startMs !== day.periods[i - 1]!.endMs) note(`gap or overlap before period ${i}`)
     if (i > 0 && p.kind === day.periods[i - 1]!.kind) note(`unmerged ${p.kind} neighbours`)
+    if (i > 0 && !day.events.some(e => e.atMs === p.startMs)) note(`no sun event at the boundary before period ${i}`)
     total += p.endMs - p.startMs
   })
   if (total !== endMs - startMs) note('period lengths do not add up to the day')
@@ -168,6 +169,17 @@ describe('published and common-practice facts', () => {
     expect(day.status).toBe('polar-night')
     expect(day.civilLightMinutes).toBe(0)
     expect(oneDay(72.2, 15.65, 'Europe/Oslo', '2026-12-21').civilLightMinutes).toBeGreaterThan(0)
+  })
+
+  it('shows the sun about 190 days a year at the North Pole and about 183 at the South Pole', () => {
+    // REFERENCES.md, "Orbital eccentricity" (common practice): the northern summer half-year is about
+    // a week longer, so the North Pole sees the sun for about 190 days and the South Pole about 183.
+    const daylightDays = (latitude: number) => yearOf(latitude, 0, 'UTC').reduce((sum, d) => sum + d.daylightMinutes, 0) / 1440
+    const north = daylightDays(90)
+    const south = daylightDays(-90)
+    expect(Math.abs(north - 190)).toBeLessThanOrEqual(2)
+    expect(Math.abs(south - 183)).toBeLessThanOrEqual(2)
+    expect(north - south).toBeGreaterThan(5)
   })
 
   it('puts the noon sun within 0.1° of the zenith on the Tropic of Cancer at the June solstice', () => {

@@ -136,7 +136,7 @@ describe('weather over a shift window', () => {
 
   it('says the forecast does not cover these hours, and falls back on site readings', () => {
     const later = describeWindowWeather(forecastState('fresh', '2026-12-01T06:00:00.000Z', hours), [], { ...window, startMs: start + 10 * HOUR, endMs: end + 10 * HOUR })
-    expect(later).toMatchObject({ basis: 'none', label: 'No forecast for these hours', forecast: { state: 'not-covered' } })
+    expect(later).toMatchObject({ basis: 'none', label: 'No forecast for these hours (the forecast runs to Tue 1 Dec 12:00 UTC+01:00)', forecast: { state: 'not-covered' } })
     const readings = [{ id: 1, at: '2026-12-01T08:00:00.000Z', temperatureC: -33, windKmh: 12, source: 'manual' as const }]
     const fallback = describeWindowWeather({ state: 'none', latest: null, lastAttempt: null }, readings, window)
     expect(fallback).toMatchObject({ basis: 'observations', observations: { count: 1 }, figures: { coldestTemperatureC: -33 } })

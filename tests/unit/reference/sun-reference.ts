@@ -144,9 +144,17 @@ function goldenExtreme(f: (ms: number) => number, a: number, b: number, sign: nu
   let fd = sign * f(d)
   while (b - a > 1_000) {
     if (fc > fd) {
-      b = d; d = c; fd = fc; c = b - g * (b - a); fc = sign * f(c)
+      b = d
+      d = c
+      fd = fc
+      c = b - g * (b - a)
+      fc = sign * f(c)
     } else {
-      a = c; c = d; fc = fd; d = a + g * (b - a); fd = sign * f(d)
+      a = c
+      c = d
+      fc = fd
+      d = a + g * (b - a)
+      fd = sign * f(d)
     }
   }
   return sign * Math.max(fc, fd)
