@@ -39,9 +39,11 @@ export function htmlList(items: string[]): string {
 
 /** A two-column table of labels and big figures (times, durations). */
 export function htmlFigureTable(rows: { label: string, value: string, note?: string }[]): string {
+  // figures (times, durations) in big type; words ("none: polar night", a name) at body size
+  const size = (value: string) => /^[\d−+-]/.test(value) ? 24 : 17
   const cells = rows.map(r => `<tr>
 <td style="padding:6px 12px 6px 0;font-size:17px;color:${MUTED};white-space:nowrap;vertical-align:top">${escapeHtml(r.label)}</td>
-<td style="padding:6px 0;font-size:24px;line-height:1.25;font-weight:600;color:${INK};font-variant-numeric:tabular-nums">${escapeHtml(r.value)}${r.note ? `<div style="font-size:15px;font-weight:400;color:${MUTED}">${escapeHtml(r.note)}</div>` : ''}</td>
+<td style="padding:6px 0;font-size:${size(r.value)}px;line-height:1.25;font-weight:600;color:${INK};font-variant-numeric:tabular-nums">${escapeHtml(r.value)}${r.note ? `<div style="font-size:15px;font-weight:400;color:${MUTED}">${escapeHtml(r.note)}</div>` : ''}</td>
 </tr>`).join('')
   return `<table role="presentation" cellpadding="0" cellspacing="0" style="border-collapse:collapse;margin:0 0 12px">${cells}</table>`
 }

@@ -40,9 +40,9 @@ export function composeShiftNoticeSubject(props: ShiftNoticeProps): string {
   return `${prefix}: ${props.shift.title}, ${props.shift.dateLabel} at ${props.shift.siteName}`
 }
 
-function factRows(props: ShiftNoticeProps) {
+function factRows(props: ShiftNoticeProps): { label: string, value: string, note?: string }[] {
   const s = props.shift
-  const rows = [
+  const rows: { label: string, value: string, note?: string }[] = [
     { label: 'Site', value: s.siteName },
     { label: 'Date', value: s.dateLabel },
     { label: 'Time', value: s.span }

@@ -29,6 +29,8 @@ const env = {
   SEED_DEMO: process.env.SEED_DEMO ?? '1',
   PORT: process.env.PORT || '3000'
 }
+// links in mail that no request caused (reminders, notices) need the app's address
+env.PUBLIC_BASE_URL = process.env.PUBLIC_BASE_URL || `http://localhost:${env.PORT}`
 
 const children = []
 if (!process.env.SMTP_URL) {

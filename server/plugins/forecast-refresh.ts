@@ -1,8 +1,10 @@
 // Optional periodic forecast refresh for every active site. Off unless FORECAST_REFRESH_MINUTES is a
 // positive number (tests leave it unset, so nothing fetches behind their back). When on, it refreshes
-// once shortly after start and then every N minutes; a failed fetch is stored with its reason and the
-// last good forecast stays.
-const START_DELAY_MS = 5_000
+// once shortly after start (FORECAST_REFRESH_DELAY_MS, default 5 s) and then every N minutes; a failed
+// fetch is stored with its reason and the last good forecast stays.
+import { seedReady } from './1.seed'
+
+const DEFAULT_START_DELAY_MS = 5_000
 const MIN_INTERVAL_MINUTES = 5
 
 export default defineNitroPlugin((nitroApp) => {
@@ -18,6 +20,8 @@ export default defineNitroPlugin((nitroApp) => {
     if (running) return
     running = true
     try {
+      // the demo seed runs asynchronously at start; its sites must exist before the first round
+      await seedReady.promise
       const db = useDB()
       for (const site of listSites()) {
         const outcome = await refreshSiteForecast(db, site, { ...settings, actorId: null })
@@ -32,7 +36,8 @@ export default defineNitroPlugin((nitroApp) => {
     }
   }
   const intervalMs = Math.max(minutes, MIN_INTERVAL_MINUTES) * 60_000
-  const first = setTimeout(refreshAll, START_DELAY_MS)
+  const delay = Number(process.env.FORECAST_REFRESH_DELAY_MS)
+  const first = setTimeout(refreshAll, Number.isFinite(delay) && delay >= 0 ? delay : DEFAULT_START_DELAY_MS)
   const timer = setInterval(refreshAll, intervalMs)
   first.unref()
   timer.unref()

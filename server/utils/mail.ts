@@ -33,7 +33,7 @@ export function resolveSmtpUrl(): string {
 function transportFor(url: string): Transporter {
   let transport = transports.get(url)
   if (!transport) {
-    transport = createTransport(url, TRANSPORT_TIMEOUTS)
+    transport = createTransport({ url, ...TRANSPORT_TIMEOUTS })
     transports.set(url, transport)
   }
   return transport

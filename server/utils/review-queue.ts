@@ -265,10 +265,20 @@ function collectCrewCautions(crew: ReviewCrew): ReviewCaution[] {
   return []
 }
 
+function collectWorkRuleCautions(conflicts: ShiftView['conflicts']): ReviewCaution[] {
+  if (!conflicts?.length) return []
+  return [{
+    key: 'work-rules', tone: 'caution', general: false,
+    title: `${conflicts.length} work-rule warning${conflicts.length === 1 ? '' : 's'} on this shift`,
+    figure: conflicts[0]!.message,
+    text: `${conflicts.map(c => c.message).join(' ')} Long hours and short rest add to the strain of cold and dark work; check the plan against your working-time procedures.`
+  }]
+}
+
 const GENERAL_COLD_KEYS = ['exposed-skin-only', 'frostbite-signs', 'hypothermia-signs', 'wet-clothing', 'warm-shelter'] as const
 
 /** The cautions for a queue item, most pressing first; general cold guidance last, flagged as general. */
-export function collectReviewCautions(input: { minutesBelow: number, requirement: LightRequirement, bandMinutes: Record<BandKind, number>, crew: ReviewCrew, weather: WindowWeather, timezone: string }): ReviewCaution[] {
+export function collectReviewCautions(input: { minutesBelow: number, requirement: LightRequirement, bandMinutes: Record<BandKind, number>, crew: ReviewCrew, weather: WindowWeather, timezone: string, conflicts?: ShiftView['conflicts'] }): ReviewCaution[] {
   const cold = input.weather.figures === null || input.weather.figures.coldestTemperatureC <= COLD_CAUTION_FROM_C
   const general: ReviewCaution[] = cold
     ? GENERAL_COLD_KEYS.map(key => ({ key, tone: 'caution' as const, general: true, title: GENERAL_TITLES[key], text: COLD_CAUTIONS[key] }))
@@ -277,7 +287,8 @@ export function collectReviewCautions(input: { minutesBelow: number, requirement
     ...collectColdCautions(input.weather, input.timezone),
     ...collectCrewCautions(input.crew),
     ...collectDarkCautions(input.minutesBelow, input.requirement, input.bandMinutes),
-    ...collectWeatherGapCautions(input.weather)
+    ...collectWeatherGapCautions(input.weather),
+    ...collectWorkRuleCautions(input.conflicts ?? [])
   ]
   const stops = specific.filter(c => c.tone === 'stop')
   return [...stops, ...specific.filter(c => c.tone !== 'stop'), ...general]
@@ -309,7 +320,7 @@ export function shapeReviewQueueItem(shift: ShiftView, check: { minutesBelow: nu
     minutesBelow: check.minutesBelow,
     weather,
     crew,
-    cautions: collectReviewCautions({ minutesBelow: check.minutesBelow, requirement, bandMinutes, crew, weather, timezone: shift.timezone })
+    cautions: collectReviewCautions({ minutesBelow: check.minutesBelow, requirement, bandMinutes, crew, weather, timezone: shift.timezone, conflicts: shift.conflicts })
   }
 }
 

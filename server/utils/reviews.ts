@@ -12,7 +12,8 @@ import { recordAudit } from './audit'
 import { conflict, notFound } from './errors'
 import { checkShiftLight } from './light-check'
 import { compareReviewQueueItems, shapeReviewQueueItem, type ReviewQueueItem } from './review-queue'
-import { loadAssignees, loadLatestReviews, toShiftView, type ShiftReviewSummary } from './shifts'
+import { loadAssignees, loadLatestReviews, loadShiftRowConflicts, toShiftView, type ShiftReviewSummary } from './shifts'
+import type { ShiftConflict } from './conflicts'
 import { describeWindowWeather, loadSiteForecast, loadSiteObservations, type ObservationRow, type SiteForecastState } from './site-weather'
 
 const HOUR_MS = 3_600_000
@@ -127,6 +128,7 @@ function shapeShiftRows(db: AppDatabase, rows: Shift[], nowMs: number): ReviewQu
   const siteById = new Map(db.select().from(sites).all().map(s => [s.id, s]))
   const assignees = loadAssignees(db, rows.map(r => r.id))
   const latest = loadLatestReviews(db, rows)
+  const conflicts = loadShiftRowConflicts(db, rows, assignees)
   const weatherBySite = new Map<number, { forecast: SiteForecastState, readings: ObservationRow[] }>()
   for (const siteId of new Set(rows.map(r => r.siteId))) {
     const own = rows.filter(r => r.siteId === siteId)
@@ -136,12 +138,14 @@ function shapeShiftRows(db: AppDatabase, rows: Shift[], nowMs: number): ReviewQu
   }
   return rows.map((row) => {
     const site = siteById.get(row.siteId)!
-    return shapeOneRow(row, site, assignees.get(row.id) ?? [], latest.get(row.id) ?? null, weatherBySite.get(row.siteId)!)
+    return shapeOneRow(row, site, { assigned: assignees.get(row.id) ?? [], review: latest.get(row.id) ?? null, conflicts: conflicts.get(row.id) ?? [] }, weatherBySite.get(row.siteId)!)
   })
 }
 
-function shapeOneRow(row: Shift, site: Site, assigned: { id: number, name: string }[], review: ShiftReviewSummary | null, weather: { forecast: SiteForecastState, readings: ObservationRow[] }) {
-  const view = toShiftView(row, site, assigned, review)
+interface RowExtras { assigned: { id: number, name: string }[], review: ShiftReviewSummary | null, conflicts: ShiftConflict[] }
+
+function shapeOneRow(row: Shift, site: Site, extras: RowExtras, weather: { forecast: SiteForecastState, readings: ObservationRow[] }) {
+  const view = toShiftView(row, site, extras.assigned, extras.review, extras.conflicts)
   const startMs = row.startAt.getTime()
   const endMs = row.endAt.getTime()
   const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: row.light })

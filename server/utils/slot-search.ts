@@ -23,6 +23,11 @@ function countWindowDays(from: string, to: string) {
   return Math.round((Date.parse(`${to}T00:00:00Z`) - Date.parse(`${from}T00:00:00Z`)) / 86_400_000) + 1
 }
 
+function isRealDate(date: string) {
+  const ms = Date.parse(`${date}T00:00:00Z`)
+  return /^\d{4}-\d{2}-\d{2}$/.test(date) && !Number.isNaN(ms) && new Date(ms).toISOString().slice(0, 10) === date
+}
+
 export const SlotSearchBodySchema = z.object({
   siteId: z.number({ error: 'expected a site id' }).int().positive(),
   durationMinutes: z.number({ error: 'expected the task length in minutes' }).int('must be whole minutes')
@@ -37,12 +42,14 @@ export const SlotSearchBodySchema = z.object({
   rank: z.enum(SLOT_RANKS, { error: 'must be earliest or margin' }).default('earliest'),
   perDay: z.number({ error: 'expected a number of slots' }).int().min(1).max(MAX_SLOTS_PER_DAY, `must be at most ${MAX_SLOTS_PER_DAY}`).default(1)
 }).superRefine((body, ctx) => {
+  if (!body.assigneeIds?.length && body.crewId === undefined) {
+    ctx.addIssue({ code: 'custom', path: ['assigneeIds'], message: 'give at least one person (assigneeIds) or a crew (crewId)' })
+  }
+  // zod still runs this when a date failed its own check: compare only real dates
+  if (!isRealDate(body.from) || !isRealDate(body.to)) return
   if (body.to < body.from) ctx.addIssue({ code: 'custom', path: ['to'], message: 'must not be before from' })
   else if (countWindowDays(body.from, body.to) > MAX_SLOT_WINDOW_DAYS) {
     ctx.addIssue({ code: 'custom', path: ['to'], message: `the window may span at most ${MAX_SLOT_WINDOW_DAYS} days` })
-  }
-  if (!body.assigneeIds?.length && body.crewId === undefined) {
-    ctx.addIssue({ code: 'custom', path: ['assigneeIds'], message: 'give at least one person (assigneeIds) or a crew (crewId)' })
   }
 })
 export type SlotSearchBody = z.infer<typeof SlotSearchBodySchema>

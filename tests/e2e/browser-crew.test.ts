@@ -3,7 +3,6 @@
 // kept under test-results/screenshots for a person to look at.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
-// @ts-expect-error plain ES module script without type declarations
 import { startMailSink } from '../../scripts/mail-sink.mjs'
 import { signedInClient, startAppServer, type AppServer } from '../support/app-server'
 import { keepScreenshot, launchBrowser, signInThroughPage } from '../support/browser'

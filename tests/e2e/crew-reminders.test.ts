@@ -10,7 +10,6 @@ import Database from 'better-sqlite3'
 import { Body, Observer, SearchAltitude, SearchRiseSet } from 'astronomy-engine'
 import { fromZonedTime } from 'date-fns-tz'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-// @ts-expect-error plain ES module script without type declarations
 import { startMailSink } from '../../scripts/mail-sink.mjs'
 import { freePort, signedInClient, startAppServer, type AppServer } from '../support/app-server'
 

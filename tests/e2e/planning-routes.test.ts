@@ -178,7 +178,7 @@ describe('conflict warnings and overrides', () => {
     expect(reply.body.conflictOverride).toBe(reason)
     // a patch that leaves assigneeIds out keeps the people (it once emptied them)
     expect(reply.body.assigneeIds).toEqual([ids.vigdis])
-    const audits = auditEntries('shift.conflict-override', ids.early)
+    const audits = auditEntries('shift.conflict-override', ids.early!)
     expect(audits).toEqual([{ reason, conflicts: [expect.objectContaining({ kind: 'rest', personId: ids.vigdis })] }])
   })
 
@@ -240,7 +240,7 @@ describe('stale edits and cancelling', () => {
     const list = await coordinator.get('/api/shifts?siteId=' + ids.camp + '&from=2027-10-11&to=2027-10-13')
     expect(list.body.map((s: any) => s.id)).toEqual([ids.early])
     expect(list.body[0].conflicts).toEqual([])
-    expect(auditEntries('shift.cancel', ids.evening)).toHaveLength(1)
+    expect(auditEntries('shift.cancel', ids.evening!)).toHaveLength(1)
   })
 
   it('refuses to cancel twice or to edit a cancelled shift (409)', async () => {

@@ -75,6 +75,19 @@ describe('a site with no forecast', () => {
   })
 })
 
+describe('a site whose first forecast fetch fails', () => {
+  it('is marked "No forecast" with the failed fetch named, and the review still works', async () => {
+    const site = (await createDarkSite(world.coordinator, 'Invented Unlucky Site')).id
+    world.fake.setMode('garbage')
+    expect((await world.safety.post(`/api/sites/${site}/forecast/refresh`)).body).toMatchObject({ refreshed: false, status: 'malformed', forecast: { state: 'none', latest: null } })
+    const shift = await createDarkShift(world.coordinator, site, { daysAhead: 2, assigneeIds: crewIds.slice(0, 2) })
+    const item = await world.safety.get(`/api/review/${shift.id}`)
+    expect(item.status).toBe(200)
+    expect(item.body.weather).toMatchObject({ basis: 'none', figures: null, forecast: { lastAttempt: { status: 'malformed' } } })
+    expect(item.body.weather.label).toMatch(/^No forecast; last fetch failed \(malformed\) at /)
+  })
+})
+
 describe('site readings', () => {
   it('stores a reading entered by hand and uses it when no forecast covers the shift', async () => {
     const bare = (await createDarkSite(world.coordinator, 'Invented Reading Site')).id
@@ -132,5 +145,25 @@ describe('site readings', () => {
   it('lets only safety and coordinators enter readings', async () => {
     const reply = await world.crew.post(`/api/sites/${siteId}/observations`, { at: new Date().toISOString(), temperature: -10, wind: 5 })
     expect(reply.status).toBe(403)
+  })
+})
+
+describe('periodic forecast refresh', () => {
+  it('is off unless FORECAST_REFRESH_MINUTES is set', () => {
+    expect(world.server.output()).not.toContain('forecasts refresh every')
+  })
+
+  it('refreshes every site soon after start when enabled', async () => {
+    const enabled = await startSafetyWorld({ FORECAST_REFRESH_MINUTES: '60', FORECAST_REFRESH_DELAY_MS: '0' })
+    try {
+      expect(enabled.server.output()).toContain('forecasts refresh every 60 min')
+      const sites = (await enabled.safety.get('/api/sites')).body as { id: number }[]
+      expect(sites.length).toBeGreaterThan(0)
+      const states = async () => Promise.all(sites.map(async site => (await enabled.safety.get(`/api/sites/${site.id}/forecast`)).body.state))
+      await expect.poll(states, { timeout: 20_000, interval: 250 }).toEqual(sites.map(() => 'fresh'))
+    }
+    finally {
+      await enabled.stop()
+    }
   })
 })

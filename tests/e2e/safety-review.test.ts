@@ -44,6 +44,8 @@ describe('recording a decision', () => {
     expect(rows).toEqual([{ decision: 'approved', mitigations: JSON.stringify(['portable-lighting', 'check-in-interval:30']), note: 'Lights at the laydown area.', shift_version: shift.version }])
     const audits = queryDatabase<{ actor_id: number, detail: string }>(world.server, 'select actor_id, detail from audit_log where entity_id = ? and action = ?', shift.id, 'shift.review')
     expect(audits).toHaveLength(1)
+    const me = (await world.safety.get('/api/auth/me')).body
+    expect(audits[0]!.actor_id).toBe(me.user.id)
     expect(JSON.parse(audits[0]!.detail)).toMatchObject({ decision: 'approved', mitigations: ['portable-lighting', 'check-in-interval:30'], previousState: 'pending' })
     // the coordinator sees the decision on the shift
     const seen = (await world.coordinator.get(`/api/shifts/${shift.id}`)).body
@@ -115,6 +117,15 @@ describe('recording a decision', () => {
     expect(countRows(shift.id)).toEqual({ reviews: 0, audits: 0 })
   })
 
+  it('answers 409 for a cancelled shift', async () => {
+    const shift = await createDarkShift(world.coordinator, siteId, { daysAhead: 6, assigneeIds: crewIds.slice(0, 2) })
+    expect((await world.coordinator.delete(`/api/shifts/${shift.id}`)).status).toBeLessThan(300)
+    const reply = await world.safety.post(`/api/shifts/${shift.id}/review`, APPROVAL)
+    expect(reply.status).toBe(409)
+    expect(reply.body.message).toContain('cancelled')
+    expect(countRows(shift.id)).toEqual({ reviews: 0, audits: 0 })
+  })
+
   it('answers 404 for a shift that does not exist', async () => {
     expect((await world.safety.post('/api/shifts/999999/review', APPROVAL)).status).toBe(404)
   })
@@ -136,6 +147,16 @@ describe('a change after a decision', () => {
     const item = queue.items.find((i: { shift: { id: number } }) => i.shift.id === shift.id)
     expect(item.changedSinceReview).toBe(true)
     expect(queue.counts.changedSinceReview).toBeGreaterThanOrEqual(1)
+  })
+
+  it('reopens an approved shift when its light requirement or its site changes', async () => {
+    const a = await createDarkShift(world.coordinator, siteId, { daysAhead: 8, assigneeIds: crewIds.slice(0, 2), light: 'civil' })
+    await world.safety.post(`/api/shifts/${a.id}/review`, APPROVAL)
+    expect((await world.coordinator.patch(`/api/shifts/${a.id}`, { light: 'daylight' })).body.reviewState).toBe('pending')
+    const other = await createDarkSite(world.coordinator, 'Invented Second Ridge')
+    const b = await createDarkShift(world.coordinator, siteId, { daysAhead: 8, assigneeIds: crewIds.slice(2, 4) })
+    await world.safety.post(`/api/shifts/${b.id}/review`, APPROVAL)
+    expect((await world.coordinator.patch(`/api/shifts/${b.id}`, { siteId: other.id })).body.reviewState).toBe('pending')
   })
 
   it('reopens an approved shift when its people change', async () => {

@@ -2,7 +2,6 @@
 // on a free port), and the message as a general MIME parser reads it back (mailparser, via the sink).
 import { createServer } from 'node:net'
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
-// @ts-expect-error plain ES module script without type declarations
 import { startMailSink } from '../../scripts/mail-sink.mjs'
 import { closeMailTransports, resolveSmtpUrl, sendMailMessage } from '../../server/utils/mail'
 import { renderInvitationMail } from '../../emails/invitation'

@@ -51,7 +51,7 @@ function shift(overrides: Partial<ShiftView> = {}): ShiftView {
     start: '2026-12-14T09:00:00+01:00', end: '2026-12-14T13:00:00+01:00', light: 'daylight', notes: '',
     assigneeIds: [1, 2], assignees: [{ id: 1, name: 'A' }, { id: 2, name: 'B' }],
     lightCheck: { requirement: 'daylight', minutesBelow: 90, flagged: true }, reviewState: 'pending',
-    review: null, conflictOverride: null, version: 1, cancelled: false, ...overrides
+    review: null, conflictOverride: null, conflicts: [], version: 1, cancelled: false, ...overrides
   }
 }
 
@@ -192,6 +192,12 @@ describe('cautions for a queue item', () => {
 })
 
 describe('queue items', () => {
+  it('carries the shift\'s work-rule warnings into its cautions', () => {
+    const conflicts = [{ kind: 'rest' as const, personId: 1, personName: 'A', otherShiftId: 9, message: 'A has 6 h rest before this shift.' }]
+    const item = shapeReviewQueueItem(shift({ conflicts }), { minutesBelow: 60, bands: bands(['night', 60]) }, NO_WEATHER)
+    expect(item.cautions.find(c => c.key === 'work-rules')).toMatchObject({ title: '1 work-rule warning on this shift', figure: 'A has 6 h rest before this shift.' })
+  })
+
   it('marks a shift changed after an earlier decision', () => {
     const b = bands(['civil', 60], ['day', 180])
     const review = { decision: 'approved' as const, mitigations: ['portable-lighting'], note: '', reviewerName: 'R', at: '2026-12-10T10:00:00.000Z', current: false }

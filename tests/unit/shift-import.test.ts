@@ -18,7 +18,7 @@ const HEADER = 'site,title,start,end,light,assignees,notes'
 let dir: string
 let db: AppDatabase
 let actorId: number
-let ids: Record<string, number>
+let ids: { camp: number, yard: number, quarry: number, liv: number, kalle: number }
 
 function count(table: typeof shifts | typeof shiftAssignees | typeof auditLog) {
   return db.select({ n: sql<number>`count(*)` }).from(table).get()!.n

@@ -1,0 +1,106 @@
+// Notices through the built server and a real SMTP sink: people on a shift hear when it changes or is
+// cancelled, people taken off it hear that, and every active safety officer hears when new work is
+// flagged below the light it needs. Each notice goes out once.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { startMailSink } from '../../scripts/mail-sink.mjs'
+import { signedInClient, startAppServer, type ApiClient, type AppServer } from '../support/app-server'
+
+interface SinkMessage { to: string[], subject: string, text: string, html: string }
+let sink: { url: string, messages: SinkMessage[], close: () => Promise<void> }
+let server: AppServer
+let coordinator: ApiClient
+let people: { id: number, email: string, role: string, active: boolean }[]
+let window: { siteId: number, startMs: number }
+const day = new Date(Date.now() + 5 * 86_400_000).toISOString().slice(0, 10)
+
+beforeAll(async () => {
+  sink = await startMailSink({ port: 0 })
+  // notices come from no request of the person reading them: their links use PUBLIC_BASE_URL
+  server = await startAppServer({ env: { SMTP_URL: sink.url, REMINDER_TIMER: 'off', PUBLIC_BASE_URL: 'https://field.northwake.test' } })
+  coordinator = await signedInClient(server, 'coordinator@gloamline.test')
+  people = (await coordinator.get('/api/people')).body
+  window = await findSunDownWindow(coordinator, day)
+})
+
+// The first site and stretch of at least 3 hours without daylight on a date, read from the light
+// engine's contract, so the test does not depend on the season.
+async function findSunDownWindow(client: ApiClient, date: string) {
+  for (const site of (await client.get('/api/sites')).body) {
+    const [light] = (await client.get(`/api/sites/${site.id}/light?from=${date}&to=${date}`)).body.days
+    const dark = light.periods.find((p: any) => p.kind !== 'day' && Date.parse(p.end) - Date.parse(p.start) >= 4 * 3_600_000)
+    if (dark) return { siteId: site.id as number, startMs: Date.parse(dark.start) + 15 * 60_000 }
+  }
+  throw new Error(`no site has 4 hours without daylight on ${date}`)
+}
+const iso = (ms: number) => new Date(ms).toISOString()
+afterAll(async () => {
+  await server?.stop()
+  await sink?.close()
+})
+
+async function until(check: () => boolean, ms = 10_000) {
+  const deadline = Date.now() + ms
+  while (!check()) {
+    if (Date.now() > deadline) throw new Error('timed out waiting for mail')
+    await new Promise(r => setTimeout(r, 100))
+  }
+}
+
+const idOf = (email: string) => people.find(p => p.email === email)!.id
+const mailTo = (email: string, subject: RegExp) => sink.messages.filter(m => m.to.includes(email) && subject.test(m.subject))
+
+describe('shift notices', () => {
+  let shiftId: number
+  let version: number
+
+  it('tells every active safety officer when new work is flagged below its light need', async () => {
+    const reply = await coordinator.post('/api/shifts', {
+      siteId: window.siteId, title: 'Night hoist inspection', light: 'daylight', start: iso(window.startMs), end: iso(window.startMs + 3 * 3_600_000),
+      assigneeIds: [idOf('liv.aasen@gloamline.test'), idOf('jonas.eide@gloamline.test')], overrideReason: 'notice test'
+    })
+    expect(reply.status, JSON.stringify(reply.body)).toBe(201)
+    expect(reply.body.lightCheck.flagged).toBe(true)
+    shiftId = reply.body.id
+    version = reply.body.version
+    const officers = people.filter(p => p.role === 'safety' && p.active).map(p => p.email)
+    expect(officers.length).toBeGreaterThan(0)
+    await until(() => officers.every(e => mailTo(e, /^Review needed: Night hoist inspection/).length === 1))
+    const mail = mailTo(officers[0]!, /^Review needed/)[0]!
+    expect(mail.text).toContain('below its light need')
+    expect(mail.text).toContain('Review queue: https://field.northwake.test/review')
+  })
+
+  it('tells the people on a shift when its time changes, and whoever was taken off it', async () => {
+    const reply = await coordinator.patch(`/api/shifts/${shiftId}`, { version, start: iso(window.startMs + 30 * 60_000), end: iso(window.startMs + 3.5 * 3_600_000), assigneeIds: [idOf('liv.aasen@gloamline.test')], overrideReason: 'notice test' })
+    expect(reply.status, JSON.stringify(reply.body)).toBe(200)
+    version = reply.body.version
+    await until(() => mailTo('liv.aasen@gloamline.test', /^Changed: Night hoist inspection/).length === 1 && mailTo('jonas.eide@gloamline.test', /^Taken off: Night hoist inspection/).length === 1)
+    const changed = mailTo('liv.aasen@gloamline.test', /^Changed/)[0]!
+    expect(changed.text).toMatch(/Time: \d{2}:\d{2}–\d{2}:\d{2} UTC[+−]\d{2}:\d{2}/)
+    expect(changed.text).toContain('With: nobody else (you are on your own)')
+    expect(changed.text).toContain('Changed by Ingrid Halvorsen.')
+    // the change reopened nothing that had been decided: still the first review round, no second notice
+    await new Promise(r => setTimeout(r, 300))
+    expect(mailTo('safety@gloamline.test', /^Review needed: Night hoist/)).toHaveLength(1)
+  })
+
+  it('does not write to anyone for a change to the title only', async () => {
+    const before = sink.messages.length
+    const reply = await coordinator.patch(`/api/shifts/${shiftId}`, { version, title: 'Night hoist inspection and log' })
+    expect(reply.status).toBe(200)
+    version = reply.body.version
+    await new Promise(r => setTimeout(r, 500))
+    expect(sink.messages.length).toBe(before)
+  })
+
+  it('tells the people on it when it is cancelled', async () => {
+    const reply = await coordinator.delete(`/api/shifts/${shiftId}?version=${version}`)
+    expect(reply.status, JSON.stringify(reply.body)).toBe(200)
+    await until(() => mailTo('liv.aasen@gloamline.test', /^Cancelled: Night hoist inspection/).length === 1)
+    expect(mailTo('liv.aasen@gloamline.test', /^Cancelled/)[0]!.text).toContain('will not take place')
+    expect(mailTo('jonas.eide@gloamline.test', /^Cancelled/)).toHaveLength(0)
+    const outbox = (await coordinator.get('/api/outbox?kind=shift-cancelled')).body.messages
+    expect(outbox).toHaveLength(1)
+    expect(outbox[0].status).toBe('sent')
+  })
+})
