@@ -27,6 +27,8 @@ const env = {
   NUXT_SESSION_PASSWORD: sessionPassword(),
   DATABASE_PATH: process.env.DATABASE_PATH || join(dataDir, 'gloamline.sqlite'),
   SEED_DEMO: process.env.SEED_DEMO ?? '1',
+  // fetch each site's forecast at start and then hourly (from the local fake unless configured)
+  FORECAST_REFRESH_MINUTES: process.env.FORECAST_REFRESH_MINUTES ?? '60',
   PORT: process.env.PORT || '3000'
 }
 // links in mail that no request caused (reminders, notices) need the app's address

@@ -39,7 +39,10 @@ function normaliseMitigation(item: string, checkInMinutes: number | undefined): 
     return `${OTHER_MITIGATION_PREFIX}${text}`
   }
   if ((MITIGATION_KEYS as readonly string[]).includes(value)) return value
-  return { message: `unknown mitigation "${value.slice(0, 40)}": use one of ${MITIGATION_KEYS.join(', ')}, or "other: <text>"` }
+  // any other text is a mitigation in the reviewer's own words, kept verbatim (DESIGN.md: string[])
+  if (!value) return { message: 'a mitigation may not be empty' }
+  if (value.length > MAX_MITIGATION_TEXT) return { message: `a mitigation may be at most ${MAX_MITIGATION_TEXT} characters` }
+  return value
 }
 
 /** Validates POST /api/shifts/:id/review; mitigations come back normalised and without duplicates. */
@@ -57,9 +60,8 @@ export const ReviewBodySchema = z.object({
     if (typeof normal !== 'string') ctx.addIssue({ code: 'custom', path: ['mitigations', i], message: normal.message })
     else if (!mitigations.includes(normal)) mitigations.push(normal)
   })
-  if (body.decision === 'approved' && body.mitigations.length === 0) {
-    ctx.addIssue({ code: 'custom', path: ['mitigations'], message: 'an approval needs at least one mitigation (describe it under other: if none of the list applies)' })
-  }
+  // an approval without mitigations is allowed by the API (the contract takes any list); the
+  // decision form asks for at least one
   if (body.decision === 'rejected' && !body.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'a rejection needs a reason' })
   if (body.decision === 'changes-requested' && !body.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'say which changes are needed' })
   return { decision: body.decision, mitigations, note: body.note, version: body.version }

@@ -10,7 +10,7 @@ import { keepScreenshot, launchBrowser, signInThroughPage } from '../support/bro
 const PHONE = { width: 390, height: 844 }
 let server: AppServer
 let browser: Browser
-let sink: { url: string, close: () => Promise<void> }
+let sink: { url: string, messages: { to: string[], text: string }[], close: () => Promise<void> }
 
 beforeAll(async () => {
   sink = await startMailSink({ port: 0 })
@@ -91,6 +91,29 @@ describe('the crew home on a phone', () => {
     await expect.poll(async () => page.getByTestId('feed-url').inputValue()).toMatch(/\/feed\/[A-Za-z0-9_-]{43}\.ics$/)
     await keepScreenshot(page, 'crew-settings-phone')
     await page.context().close()
+  })
+})
+
+describe('an invitation link', () => {
+  it('lets the invited person choose a password on a phone and lands them on their home', async () => {
+    const coordinator = await signedInClient(server, 'coordinator@gloamline.test')
+    const email = 'eira.nes@northwake.test'
+    expect((await coordinator.post('/api/invitations', { name: 'Eira Nes', email, role: 'crew' })).status).toBe(201)
+    const link = /(http:\/\/\S+\/welcome\?token=\S+)/.exec(sink.messages.find(m => m.to.includes(email))!.text)![1]!
+    const context = await browser.newContext({ viewport: PHONE })
+    const page = await context.newPage()
+    await page.goto(link)
+    await expect.poll(() => page.getByTestId('welcome').textContent()).toContain('Hello Eira Nes')
+    await page.getByLabel('Choose a password').fill('moraine-kettle-dusk-31')
+    await page.getByLabel('The same password again').fill('moraine-kettle-dusk-31')
+    await keepScreenshot(page, 'crew-welcome-phone')
+    await page.getByRole('button', { name: 'Save my password and sign in' }).click()
+    await page.getByTestId('home-crew').waitFor()
+    expect(await page.getByTestId('crew-basis').textContent()).toContain('no shifts in the next 7 days')
+    // the link is spent: opening it again says so
+    await page.goto(link)
+    await expect.poll(() => page.getByTestId('welcome').textContent()).toContain('already been used')
+    await context.close()
   })
 })
 

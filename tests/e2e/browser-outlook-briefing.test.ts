@@ -36,8 +36,8 @@ describe('the daily briefing with a forecast', () => {
     await page.waitForLoadState('networkidle')
     const forecast = page.locator('section[aria-labelledby="brief-forecast"]')
     expect(await page.getByTestId('no-forecast').count()).toBe(0)
-    // every third hour of the local day
-    expect(await forecast.locator('tbody tr').count()).toBe(8)
+    // every third hour of the local day, as columns
+    expect(await forecast.locator('thead th').count()).toBe(1 + 8)
     const text = await forecast.textContent()
     expect(text).toContain('Forecast from')
     expect(text).toContain('Wind chill')

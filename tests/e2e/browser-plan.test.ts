@@ -31,8 +31,8 @@ function referenceMinutesBelowDaylight(startMs: number, endMs: number) {
   return below
 }
 
-async function createShift(title: string, start: string, end: string) {
-  const reply = await coordinator.post('/api/shifts', { siteId: site.id, title, start, end, light: 'daylight', assigneeIds: [] })
+async function createShift(title: string, start: string, end: string, assigneeIds: number[] = []) {
+  const reply = await coordinator.post('/api/shifts', { siteId: site.id, title, start, end, light: 'daylight', assigneeIds })
   expect(reply.status).toBe(201)
   return reply.body as { id: number, version: number, lightCheck: { minutesBelow: number, flagged: boolean } }
 }
@@ -134,15 +134,19 @@ describe('planning on the calendar in the browser', () => {
     await page.close()
   })
 
-  it('shows crew the same week read-only, in the dark theme', async () => {
+  it('shows crew their shifts in the same week read-only, in the dark theme', async () => {
+    // crew see only their own shifts: put the demo crew member on one
+    const people = (await coordinator.get('/api/people')).body as { id: number, email: string }[]
+    const crewId = people.find(p => p.email === 'crew@gloamline.test')!.id
+    const own = await createShift('Weather mast service', '2027-03-05T10:00', '2027-03-05T13:00', [crewId])
     const page = await browser.newPage({ viewport: { width: 1400, height: 1300 }, colorScheme: 'dark' })
     await openWeek(page, 'crew@gloamline.test')
-    await page.locator('[data-testid="shift-chip"]').first().waitFor()
+    await page.locator(`[data-testid="shift-chip"][data-shift-id="${own.id}"]`).waitFor()
     expect(await page.evaluate(() => document.documentElement.classList.contains('dark'))).toBe(true)
     // FullCalendar marks movable events with fc-event-draggable; none may be movable for crew
     expect(await page.locator('.fc-event-draggable').count()).toBe(0)
     expect(await page.locator('.fc-event').count()).toBeGreaterThan(0)
-    await page.locator('[data-testid="shift-chip"]').first().click()
+    await page.locator(`[data-testid="shift-chip"][data-shift-id="${own.id}"]`).click()
     await page.getByTestId('shift-summary').waitFor()
     expect(await page.getByTestId('shift-form').count()).toBe(0)
     await keepScreenshot(page, 'plan-week-crew-dark')

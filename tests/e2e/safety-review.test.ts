@@ -56,8 +56,8 @@ describe('recording a decision', () => {
   })
 
   const INVALID: [string, Record<string, unknown>, string][] = [
-    ['an approval without mitigations', { decision: 'approved', mitigations: [], note: '' }, 'mitigations'],
-    ['an unknown mitigation', { decision: 'approved', mitigations: ['lucky-charm'], note: '' }, 'mitigations.0'],
+    ['an empty mitigation', { decision: 'approved', mitigations: ['   '], note: '' }, 'mitigations.0'],
+    ['a mitigation of more text than a note', { decision: 'approved', mitigations: ['x'.repeat(5000)], note: '' }, 'mitigations.0'],
     ['a check-in without its minutes', { decision: 'approved', mitigations: ['check-in-interval'], note: '' }, 'mitigations.0'],
     ['a check-in interval out of range', { decision: 'approved', mitigations: ['check-in-interval'], checkInMinutes: 2, note: '' }, 'checkInMinutes'],
     ['a rejection without a reason', { decision: 'rejected', mitigations: [], note: '  ' }, 'note'],
@@ -75,6 +75,13 @@ describe('recording a decision', () => {
       expect((await world.safety.get(`/api/shifts/${shift.id}`)).body.reviewState).toBe('pending')
     })
   }
+
+  it('keeps a mitigation in the reviewer\'s own words verbatim, as DESIGN.md takes any list of strings', async () => {
+    const shift = await createDarkShift(world.coordinator, siteId, { daysAhead: 4, assigneeIds: crewIds.slice(0, 2) })
+    const reply = await world.safety.post(`/api/shifts/${shift.id}/review`, { decision: 'approved', mitigations: ['Head torches for all', 'portable-lighting'], note: '' })
+    expect(reply.status).toBe(201)
+    expect((await world.coordinator.get(`/api/shifts/${shift.id}`)).body.review.mitigations).toEqual(['Head torches for all', 'portable-lighting'])
+  })
 
   it('refuses a body that is not JSON with 400', async () => {
     const shift = await createDarkShift(world.coordinator, siteId, { daysAhead: 4, assigneeIds: crewIds.slice(0, 2) })

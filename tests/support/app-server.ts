@@ -75,7 +75,7 @@ export async function startAppServer(options: { seed?: boolean, env?: Record<str
     process: child,
     output: () => log,
     stop: async () => {
-      if (child.exitCode === null) {
+      if (child.exitCode === null && child.signalCode === null) {
         child.kill('SIGTERM')
         await new Promise(r => child.once('exit', r))
       }

@@ -8,7 +8,7 @@ import { eq, sql } from 'drizzle-orm'
 import { afterEach, describe, expect, it } from 'vitest'
 import { applyMigrations, openDatabase } from '../../server/utils/db'
 import { seedDemoScenario } from '../../server/db/seed'
-import { messages, people, shifts, sites } from '../../server/db/schema'
+import { messages, people, shiftAssignees, shifts, sites } from '../../server/db/schema'
 import { composeReminderKey, findDueReminderTargets, planRemindersForDate, queueRemindersForDate } from '../../server/utils/reminders'
 import { localMidnightMs } from '../../server/utils/zoned'
 import { addDays } from '../../shared/format'
@@ -86,20 +86,26 @@ describe('planning reminders', () => {
   it('queues an updated reminder when a person\'s shift set for the day changes', () => {
     const db = seededDatabase()
     queueRemindersForDate(db, DATE, { baseUrl: null, nowMs: NOW })
-    const plan = planRemindersForDate(db, DATE).find(p => p.shifts.length > 1)!
-    db.update(shifts).set({ cancelledAt: new Date(NOW) }).where(eq(shifts.id, plan.shifts[0]!.id)).run()
+    const plan = planRemindersForDate(db, DATE)[0]!
+    // a second shift for this person later the same day
+    const first = plan.shifts[0]!
+    const added = db.insert(shifts).values({ siteId: first.siteId, title: 'Extra sample run', light: 'any', startAt: new Date(first.startAt.getTime() + 3_600_000), endAt: new Date(first.startAt.getTime() + 2 * 3_600_000) }).returning().get()
+    db.insert(shiftAssignees).values({ shiftId: added.id, personId: plan.person.id }).run()
     const created = queueRemindersForDate(db, DATE, { baseUrl: null, nowMs: NOW })
     const mine = db.select().from(messages).where(eq(messages.personId, plan.person.id)).all()
     expect(mine).toHaveLength(2)
     expect(created).toContain(mine[1]!.id)
     expect(mine[1]!.subject).toMatch(/^Updated: /)
+    expect(mine[1]!.text).toContain('Extra sample run')
+    expect(created).toHaveLength(1)
   })
 })
 
 describe('when reminders are due', () => {
   it('is due from the site\'s reminderHour in its own zone, for the next local day', () => {
     const db = seededDatabase()
-    const oslo = db.select().from(sites).where(eq(sites.name, 'Larsen Wharf Line Crew')).get()!
+    const addSite = (name: string, timezone: string, reminderHour?: number) => db.insert(sites).values({ name, latitude: 65, longitude: 10, timezone, reminderHour }).returning().get()
+    const oslo = addSite('Test fjord site', 'Europe/Oslo')
     // 18:00 in Europe/Oslo on 12 Jan 2027 is 17:00 UTC (UTC+1 in winter, tz data)
     const before = findDueReminderTargets(db, Date.parse('2027-01-12T16:59:00Z'))
     const at = findDueReminderTargets(db, Date.parse('2027-01-12T17:00:00Z'))
@@ -107,13 +113,13 @@ describe('when reminders are due', () => {
     expect(before.find(t => t.siteId === oslo.id)).toBeUndefined()
     expect(at.find(t => t.siteId === oslo.id)).toEqual({ siteId: oslo.id, date: '2027-01-13' })
     // at that instant it is 07:00 in Whitehorse (UTC−7): not due there yet
-    const whitehorse = db.select().from(sites).where(eq(sites.name, 'Tamarack Creek Mine')).get()!
+    const whitehorse = addSite('Test Yukon site', 'America/Whitehorse')
     expect(at.find(t => t.siteId === whitehorse.id)).toBeUndefined()
   })
 
   it('follows a changed reminderHour and the site\'s own date across midnight UTC', () => {
     const db = seededDatabase()
-    const mcmurdo = db.select().from(sites).where(eq(sites.name, 'Cape Mawdsley Station')).get()!
+    const mcmurdo = db.insert(sites).values({ name: 'Test ice shelf site', latitude: -77.8, longitude: 166.7, timezone: 'Antarctica/McMurdo' }).returning().get()
     db.update(sites).set({ reminderHour: 6 }).where(eq(sites.id, mcmurdo.id)).run()
     // 2027-01-12T18:00Z is 07:00 on 13 Jan in Antarctica/McMurdo (NZDT, UTC+13): due for 14 Jan
     expect(findDueReminderTargets(db, Date.parse('2027-01-12T18:00:00Z')).find(t => t.siteId === mcmurdo.id)).toEqual({ siteId: mcmurdo.id, date: '2027-01-14' })

@@ -1,9 +1,10 @@
 import { IdParamsSchema } from '../../utils/validation'
 
 export default defineEventHandler(async (event) => {
-  await requireRole(event)
+  const user = await requireRole(event)
   const { id } = readParamsAs(event, IdParamsSchema)
   const shift = findShiftView(useDB(), id)
-  if (!shift) throw notFound('Shift')
+  // a crew member asking for someone else's shift learns nothing, not even that it exists
+  if (!shift || (user.role === 'crew' && !shift.assigneeIds.includes(user.id))) throw notFound('Shift')
   return shift
 })

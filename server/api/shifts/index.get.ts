@@ -1,5 +1,6 @@
 export default defineEventHandler(async (event) => {
-  await requireRole(event)
+  const user = await requireRole(event)
   const query = readQueryAs(event, ShiftListQuerySchema)
-  return findShiftsInRange(useDB(), query)
+  // crew members see their own shifts only; coordinators and safety officers see all
+  return findShiftsInRange(useDB(), user.role === 'crew' ? { ...query, personId: user.id } : query)
 })
