@@ -130,3 +130,30 @@ describe('access to every route', () => {
     })
   }
 })
+
+describe('what a crew member may read', () => {
+  it('lists only their own shifts, and answers 404 for anyone else\'s', async () => {
+    const mine = await clients.crew!.get('/api/shifts')
+    const me = (await clients.crew!.get('/api/auth/me')).body.user
+    expect(mine.body.length).toBeGreaterThan(0)
+    expect(mine.body.every((s: { assigneeIds: number[] }) => s.assigneeIds.includes(me.id))).toBe(true)
+    const all = (await clients.coordinator!.get('/api/shifts')).body as { id: number, assigneeIds: number[] }[]
+    const other = all.find(s => !s.assigneeIds.includes(me.id))!
+    expect((await clients.crew!.get(`/api/shifts/${other.id}`)).status).toBe(404)
+    expect((await clients.crew!.get(`/api/shifts/${mine.body[0].id}`)).status).toBe(200)
+    expect((await clients.crew!.get('/api/shifts/999999')).status).toBe(404)
+  })
+})
+
+describe('security headers', () => {
+  it('sends a content-security policy, frame-ancestors none, no-sniff and a referrer policy on pages and API replies', async () => {
+    for (const path of ['/login', '/api/auth/me', '/health', '/api/sites']) {
+      const res = await fetch(`${server.url}${path}`, path === '/api/sites' ? { headers: { cookie: clients.crew!.cookie } } : {})
+      expect(res.headers.get('content-security-policy'), path).toMatch(/frame-ancestors 'none'/)
+      // error replies (the signed-out 401) carry the server's stricter script-src 'none' policy instead
+      if (res.ok) expect(res.headers.get('content-security-policy'), path).toMatch(/default-src 'self'/)
+      expect(res.headers.get('x-content-type-options'), path).toBe('nosniff')
+      expect(['same-origin', 'no-referrer'], path).toContain(res.headers.get('referrer-policy'))
+    }
+  })
+})
