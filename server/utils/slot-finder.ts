@@ -170,7 +170,7 @@ function scanDay(day: SlotSearchInput['days'][number], input: SlotSearchInput, i
     const endMs = startMs + durationMs
     while (k < intervals.length && intervals[k]!.endMs < endMs) k++
     const interval = intervals[k]
-    if (!interval || interval.startMs > startMs + 1800000) continue
+    if (!interval || interval.startMs > startMs) continue
     if (input.notBeforeMs !== undefined && startMs < input.notBeforeMs) {
       scan.past++
       continue

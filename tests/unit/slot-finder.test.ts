@@ -105,6 +105,20 @@ describe('slot finder against a brute force over every quarter hour', () => {
 })
 
 describe('proposed slots', () => {
+  it('lie wholly in usable light by the reference when nothing else constrains them, at both ends of the light', () => {
+    const free: ConflictContext = { otherShifts: [], unavailable: [], personNames: {} }
+    for (const requirement of ['daylight', 'civil'] as const) {
+      for (const rank of ['earliest', 'margin'] as const) {
+        const { slots } = findSlots(baseInput({ requirement, rank, perDay: 4, durationMinutes: 60, context: free }))
+        expect(slots.length).toBeGreaterThan(4)
+        for (const slot of slots) {
+          expect(referenceMinAltitude(slot.startMs, slot.endMs, PLACE.latitude, PLACE.longitude), `${requirement} ${rank} ${new Date(slot.startMs).toISOString()}`)
+            .toBeGreaterThanOrEqual(THRESHOLD[requirement] - ENGINE_TOLERANCE_DEG)
+        }
+      }
+    }
+  }, 60_000)
+
   it('lie wholly in usable light by the reference and break no work rule', () => {
     for (const rank of ['earliest', 'margin'] as const) {
       const input = baseInput({ rank, perDay: 4 })
