@@ -14,6 +14,8 @@ import { computeRunup } from '../server/utils/runup'
 import { loadLightBoard } from '../server/utils/light-board'
 import { searchSlots } from '../server/utils/slot-search'
 import { addDaysToDate, localDateOf, localMidnightMs } from '../server/utils/zoned'
+import { existsSync } from 'node:fs'
+import { OUTPUT_DIR, signedInClient, startAppServer } from '../tests/support/app-server'
 
 const KVITFJELL = { siteId: 1, latitude: 78.2232, longitude: 15.6267, timezone: 'Arctic/Longyearbyen', year: 2027 }
 
@@ -78,10 +80,53 @@ function benchSlotSearch() {
   }
 }
 
-/** Prints the outlook figures: year chart, run-up, slot search and light board timings. */
+async function measureAsync(label: string, runs: number, target: number | null, fn: () => Promise<unknown>) {
+  for (let i = 0; i < 3; i++) await fn()
+  const times: number[] = []
+  for (let i = 0; i < runs; i++) {
+    const t = performance.now()
+    await fn()
+    times.push(performance.now() - t)
+  }
+  times.sort((a, b) => a - b)
+  const pick = (q: number) => times[Math.min(times.length - 1, Math.floor(q * times.length))]!
+  const verdict = target === null ? '' : `  target < ${target} ms: ${pick(0.95) < target ? 'met' : 'NOT met'} (p95)`
+  console.log(`${label.padEnd(58)} median ${pick(0.5).toFixed(1).padStart(6)} ms  p95 ${pick(0.95).toFixed(1).padStart(6)} ms  max ${times[times.length - 1]!.toFixed(1).padStart(6)} ms  (${runs} runs)${verdict}`)
+}
+
+// The same two over HTTP against the built server (GLOAMLINE_OUTPUT_DIR or .output), when there is one.
+async function benchOverHttp() {
+  if (!existsSync(resolve(OUTPUT_DIR, 'server/index.mjs'))) {
+    console.log(`over HTTP: skipped, no built server in ${OUTPUT_DIR} (run nuxt build first)`)
+    return
+  }
+  const server = await startAppServer()
+  try {
+    const client = await signedInClient(server, 'coordinator@gloamline.test')
+    const list = (await client.get('/api/sites')).body as { id: number, name: string, timezone: string }[]
+    const kvitfjell = list.find(s => s.name === 'Kvitfjell Ice Camp')!
+    const ravnvik = list.find(s => s.name === 'Ravnvik Pipeline Yard')!
+    const crewIds = ((await client.get('/api/people')).body as { id: number, role: string }[]).filter(p => p.role === 'crew').slice(0, 6).map(p => p.id)
+    const from = addDaysToDate(localDateOf(Date.now(), ravnvik.timezone), 1)
+    await measureAsync('GET /api/sites/:id/year (78° N), built server over HTTP', 30, 150, () => client.get(`/api/sites/${kvitfjell.id}/year?year=2027`))
+    const search = { siteId: ravnvik.id, durationMinutes: 180, light: 'civil', from, to: addDaysToDate(from, 29), assigneeIds: crewIds }
+    const sample = await client.post('/api/slots/search', search)
+    console.log(`over HTTP: slot search answers ${sample.status} with ${sample.body.slots?.length ?? 0} slots for ${crewIds.length} people (demo roster)`)
+    await measureAsync('POST /api/slots/search, 30 days, crew of 6, over HTTP', 30, 200, () => client.post('/api/slots/search', search))
+  }
+  catch (err) {
+    console.log(`over HTTP: not measured (${(err as Error).message.split('\n')[0]})`)
+  }
+  finally {
+    await server.stop()
+  }
+}
+
+/** Prints the outlook figures: year chart, run-up, slot search and light board timings, in process and over HTTP. */
 export async function runOutlookBench() {
   benchYearChart()
   benchSlotSearch()
+  await benchOverHttp()
 }
 
 if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) await runOutlookBench()

@@ -164,7 +164,7 @@ describe('conflict warnings and overrides', () => {
     expect(early.status).toBe(201)
     // 23:00 to 05:00 is 6 h of rest, short of the 11 h of EU Working Time Directive 2003/88/EC art. 3
     expect(early.body.conflicts).toEqual([expect.objectContaining({ kind: 'rest', personId: ids.vigdis, otherShiftId: evening.body.id })])
-    const list = await crew.get('/api/shifts?siteId=' + ids.camp + '&from=2027-10-11&to=2027-10-13')
+    const list = await coordinator.get('/api/shifts?siteId=' + ids.camp + '&from=2027-10-11&to=2027-10-13')
     const listed = list.body.find((s: any) => s.id === evening.body.id)
     expect(listed.conflicts).toEqual([expect.objectContaining({ kind: 'rest', otherShiftId: early.body.id })])
     ids.evening = evening.body.id
