@@ -3,7 +3,8 @@ import { checkShiftLight } from '../server/utils/light-check'
 import { addDaysToDate, localDateOf } from '../server/utils/zoned'
 import { people, shiftAssignees, shifts, sites } from '../server/db/schema'
 
-// A synthetic load scenario (benchmarks only): 6 sites, 50 people, 2,000 shifts over ~10 weeks.
+// A synthetic load scenario (benchmarks only): 6 sites, 50 people, 2,000 shifts over half a year
+// (about 78 a week across the sites, two people each: a busy but plannable roster).
 const SITES = [
   { name: 'Load site 78N', latitude: 78.22, longitude: 15.63, timezone: 'Arctic/Longyearbyen' },
   { name: 'Load site 69N', latitude: 69.65, longitude: 18.96, timezone: 'Europe/Oslo' },
@@ -21,15 +22,16 @@ export function seedLoadScenario(db: AppDatabase, passwordHash: string, now: num
     }))).returning().all()
     const siteRows = tx.insert(sites).values(SITES).returning().all()
     const ids: number[] = []
-    const startDay = now - 35 * 86_400_000
+    const startDay = now - 90 * 86_400_000
+    const step = (180 * 86_400_000) / 2000
     for (let i = 0; i < 2000; i++) {
       const site = siteRows[i % siteRows.length]!
-      const startMs = startDay + Math.floor(i / 6) * 5 * 3_600_000 + (i % 3) * 3_600_000
+      const startMs = startDay + Math.round(i * step / 900_000) * 900_000
       const endMs = startMs + (4 + (i % 5)) * 3_600_000
       const light = (['daylight', 'civil', 'any'] as const)[i % 3]!
       const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: light })
       const row = tx.insert(shifts).values({ siteId: site.id, title: `Load shift ${i + 1}`, startAt: new Date(startMs), endAt: new Date(endMs), light, minutesBelow: check.minutesBelow, flagged: check.flagged, reviewState: check.flagged ? 'pending' : 'not-needed' }).returning({ id: shifts.id }).get()
-      tx.insert(shiftAssignees).values([0, 1, 2].map(k => ({ shiftId: row.id, personId: personRows[4 + ((i * 3 + k) % 46)]!.id }))).run()
+      tx.insert(shiftAssignees).values([0, 1].map(k => ({ shiftId: row.id, personId: personRows[4 + ((i * 2 + k) % 46)]!.id }))).run()
       ids.push(row.id)
     }
     const today = localDateOf(now, 'UTC')
@@ -42,7 +44,7 @@ export function seedLoadScenario(db: AppDatabase, passwordHash: string, now: num
       weekTo: addDaysToDate(today, 7),
       monthFrom: today,
       monthTo: addDaysToDate(today, 30),
-      contestedShiftIds: ids.slice(1000, 1040)
+      contestedShiftIds: ids.slice(1000, 1005)
     }
   })
 }

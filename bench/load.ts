@@ -22,6 +22,8 @@ function report(title: string, r: autocannon.Result) {
 }
 
 async function runReads(url: string, cookie: string, path: string, title: string) {
+  const probe = await fetch(`${url}${path}`, { headers: { cookie } })
+  console.log(`${path.split('?')[0]}: reply of ${((await probe.arrayBuffer()).byteLength / 1024).toFixed(0)} KiB`)
   const result = await autocannon({ url: `${url}${path}`, connections: 50, duration: SECONDS, headers: { cookie, accept: 'application/json' } })
   return report(title, result)
 }
@@ -49,7 +51,7 @@ async function runWriters(url: string, client: ApiClient, shiftIds: number[]) {
       else other++
     }
   }
-  // a small pool of shifts makes the writers collide often
+  // five shifts for twenty writers: they collide often, which is the point
   await Promise.all(Array.from({ length: 20 }, (_, k) => writer(k)))
   let lost = 0
   for (const [id, changes] of accepted) {
