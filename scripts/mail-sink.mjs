@@ -7,7 +7,7 @@ import { SMTPServer } from 'smtp-server'
 import { simpleParser } from 'mailparser'
 
 /** Starts the sink; resolves to { port, url, messages, close }. Messages are parsed with mailparser. */
-export async function startMailSink({ port = 0, dir } = {}) {
+export async function startMailSink({ port = 0, dir, delayMs = 0 } = {}) {
   const messages = []
   const server = new SMTPServer({
     authOptional: true,
@@ -17,6 +17,8 @@ export async function startMailSink({ port = 0, dir } = {}) {
       const chunks = []
       stream.on('data', c => chunks.push(c))
       stream.on('end', async () => {
+        // a slow mail server (tests): hold each message before accepting it
+        if (delayMs) await new Promise(resolve => setTimeout(resolve, delayMs))
         const raw = Buffer.concat(chunks)
         const parsed = await simpleParser(raw)
         const message = {

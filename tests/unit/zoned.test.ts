@@ -38,3 +38,11 @@ describe('local days and times in IANA zones', () => {
     expect(resolveLocalOrInstant('2026-01-15T08:00:00+01:00', 'America/Nuuk').ms).toBe(Date.parse('2026-01-15T07:00:00Z'))
   })
 })
+
+describe('instants in query strings', () => {
+  it('reads an offset whose plus sign arrived as a space', async () => {
+    const { InstantSchema } = await import('../../server/utils/validation')
+    expect(InstantSchema.parse('2026-12-01T08:00:00 01:00')).toBe('2026-12-01T08:00:00+01:00')
+    expect(InstantSchema.safeParse('2026-12-01 08:00').success).toBe(false)
+  })
+})
