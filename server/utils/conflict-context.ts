@@ -4,7 +4,7 @@
 import { and, eq, gt, inArray, isNull, lt } from 'drizzle-orm'
 import { people, shiftAssignees, shifts, sites, unavailability } from '../db/schema'
 import type { AppDatabase } from './db'
-import { findShiftConflicts, type BlockedSpan, type ConflictCandidate, type NeighbourShift, type ShiftConflict, type WorkRules } from './conflicts'
+import { findFirstStartAtOrAfter, findShiftConflicts, type BlockedSpan, type ConflictCandidate, type NeighbourShift, type ShiftConflict, type WorkRules } from './conflicts'
 import { loadWorkRules } from './work-rules'
 
 const HOUR_MS = 3_600_000
@@ -91,25 +91,13 @@ export function addConflictNeighbours(loaded: LoadedConflictContext, extra: Neig
   return { ...loaded, byPerson, longestMs: Math.max(loaded.longestMs, findLongestSpan(extra)) }
 }
 
-// First index of a start-sorted list whose start is at or after the given instant.
-function lowerBound(list: NeighbourShift[], ms: number) {
-  let lo = 0
-  let hi = list.length
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1
-    if (list[mid]!.startMs < ms) lo = mid + 1
-    else hi = mid
-  }
-  return lo
-}
-
 function nearbyShifts(loaded: LoadedConflictContext, candidate: ConflictCandidate): NeighbourShift[] {
   const padMs = loaded.rules.minRestHours * HOUR_MS
   const near: NeighbourShift[] = []
   for (const personId of new Set(candidate.personIds)) {
     const list = loaded.byPerson.get(personId) ?? []
     const end = candidate.endMs + padMs
-    for (let i = lowerBound(list, candidate.startMs - padMs - loaded.longestMs); i < list.length && list[i]!.startMs < end; i++) {
+    for (let i = findFirstStartAtOrAfter(list, candidate.startMs - padMs - loaded.longestMs); i < list.length && list[i]!.startMs < end; i++) {
       near.push(list[i]!)
     }
   }

@@ -149,3 +149,15 @@ export function findShiftConflicts(candidate: ConflictCandidate, context: Confli
   }
   return conflicts
 }
+
+/** First index of a start-sorted list of shifts whose start is at or after `ms` (binary search). */
+export function findFirstStartAtOrAfter(list: { startMs: number }[], ms: number): number {
+  let lo = 0
+  let hi = list.length
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1
+    if (list[mid]!.startMs < ms) lo = mid + 1
+    else hi = mid
+  }
+  return lo
+}

@@ -6,7 +6,7 @@
 import { BANDS_MEETING_REQUIREMENT, type LightDayMs, type LightRequirement } from '../../shared/light'
 import type { SlotRank, SlotReasonCode } from '../../shared/outlook'
 import { formatDate, formatDuration } from '../../shared/format'
-import { findShiftConflicts, type BlockedSpan, type ConflictContext, type NeighbourShift, type ShiftConflictKind, type WorkRules } from './conflicts'
+import { findFirstStartAtOrAfter, findShiftConflicts, type BlockedSpan, type ConflictContext, type NeighbourShift, type ShiftConflictKind, type WorkRules } from './conflicts'
 
 const MINUTE_MS = 60_000
 /** Slots start on a quarter hour of the local clock (every zone offset in use is a multiple of 15 min). */
@@ -106,23 +106,11 @@ function buildRosters(context: ConflictContext, people: SlotPerson[]): Map<numbe
   return map
 }
 
-// First index of a start-sorted list whose start is at or after ms.
-function lowerBound(list: NeighbourShift[], ms: number): number {
-  let lo = 0
-  let hi = list.length
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1
-    if (list[mid]!.startMs < ms) lo = mid + 1
-    else hi = mid
-  }
-  return lo
-}
-
 // The person's shifts that can touch [startMs, endMs) under the rules: overlapping it, or closer than
 // the rest period on either side. Only those go to the conflict check; farther ones cannot conflict.
 function findNearShifts(roster: PersonRoster, startMs: number, endMs: number, restMs: number): NeighbourShift[] {
   const near: NeighbourShift[] = []
-  for (let i = lowerBound(roster.shifts, startMs - restMs - roster.longestMs); i < roster.shifts.length && roster.shifts[i]!.startMs < endMs + restMs; i++) {
+  for (let i = findFirstStartAtOrAfter(roster.shifts, startMs - restMs - roster.longestMs); i < roster.shifts.length && roster.shifts[i]!.startMs < endMs + restMs; i++) {
     const s = roster.shifts[i]!
     if (s.endMs > startMs - restMs) near.push(s)
   }

@@ -1,26 +1,14 @@
-import { mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
+import { resolve } from 'node:path'
 import { sql } from 'drizzle-orm'
 import { afterEach, describe, expect, it } from 'vitest'
-import { applyMigrations, openDatabase } from '../../server/utils/db'
+import { applyMigrations } from '../../server/utils/db'
 import { isDatabaseEmpty, seedDemoScenario } from '../../server/db/seed'
 import { people, shifts, sites } from '../../server/db/schema'
+import { createTestDatabase as freshDatabase, removeTestDatabases } from '../support/test-database'
 
 const MIGRATIONS = resolve(import.meta.dirname, '../../drizzle')
-const dirs: string[] = []
 
-function freshDatabase() {
-  const dir = mkdtempSync(join(tmpdir(), 'gloamline-db-'))
-  dirs.push(dir)
-  const db = openDatabase(join(dir, 'test.sqlite'))
-  applyMigrations(db, MIGRATIONS)
-  return db
-}
-
-afterEach(() => {
-  for (const dir of dirs.splice(0)) rmSync(dir, { recursive: true, force: true })
-})
+afterEach(removeTestDatabases)
 
 describe('database', () => {
   it('applies the migrations to an empty file, with WAL and foreign keys on', () => {

@@ -1,34 +1,23 @@
 // The outbox on a fresh SQLite database with the migrations applied: dedupe, delivery, failure with
 // exponential back-off, recovery delivering exactly once, and two senders racing for one message.
 // The senders here are stand-ins that record calls; the real SMTP path is in mail-transport.test.ts.
-import { mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
 import { eq } from 'drizzle-orm'
 import { afterEach, describe, expect, it } from 'vitest'
-import { applyMigrations, openDatabase } from '../../server/utils/db'
 import { messages } from '../../server/db/schema'
 import {
   OUTBOX_MAX_ATTEMPTS, computeRetryDelayMs, deliverDueOutboxMessages, deliverOutboxMessage,
   enqueueOutboxMessage, findDueOutboxIds, listOutboxMessages, retryFailedOutboxMessages
 } from '../../server/utils/outbox'
 import type { OutgoingMail } from '../../server/utils/mail'
+import { createTestDatabase, removeTestDatabases } from '../support/test-database'
 
-const MIGRATIONS = resolve(import.meta.dirname, '../../drizzle')
-const dirs: string[] = []
 const BASE = 60_000
 
 function freshDatabase() {
-  const dir = mkdtempSync(join(tmpdir(), 'gloamline-outbox-'))
-  dirs.push(dir)
-  const db = openDatabase(join(dir, 'test.sqlite'))
-  applyMigrations(db, MIGRATIONS)
-  return db
+  return createTestDatabase('gloamline-outbox-')
 }
 
-afterEach(() => {
-  for (const dir of dirs.splice(0)) rmSync(dir, { recursive: true, force: true })
-})
+afterEach(removeTestDatabases)
 
 function sample(key = 'reminder:1:2027-01-14:5,7') {
   return { dedupeKey: key, kind: 'reminder', personId: null, toEmail: 'liv.aasen@northwake.test', subject: 'Thu 14 Jan: 2 shifts', html: '<p>hi</p>', text: 'hi' }
