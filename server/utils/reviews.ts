@@ -168,7 +168,7 @@ export function countReviewStates(db: AppDatabase, query: Pick<ReviewQueueQuery,
     .where(and(...queueConditions(query, nowMs))).groupBy(shifts.reviewState).all()
   const counts = Object.fromEntries(REVIEW_QUEUE_STATES.map(s => [s, 0])) as Record<ReviewQueueState, number> & { changedSinceReview: number }
   for (const g of grouped) if (g.state !== 'not-needed') counts[g.state] = g.n
-  const pending = db.select({ id: shifts.id, version: shifts.version }).from(shifts)
+  const pending = db.select({ id: shifts.id, reviewState: shifts.reviewState }).from(shifts)
     .where(and(...queueConditions(query, nowMs), eq(shifts.reviewState, 'pending'))).all()
   counts.changedSinceReview = [...loadLatestReviews(db, pending).values()].filter(r => !r.current).length
   return counts

@@ -122,16 +122,18 @@ export function loadAssignees(db: Pick<AppDatabase, 'select'>, shiftIds: number[
 }
 
 /** The latest review decision of many shifts at once: shiftId → summary. */
-export function loadLatestReviews(db: Pick<AppDatabase, 'select'>, rows: Pick<Shift, 'id' | 'version'>[]) {
+// A decision still applies while the shift's review state is that decision: a change to time, site,
+// requirement or people moves the state (back to pending), a new title or note does not.
+export function loadLatestReviews(db: Pick<AppDatabase, 'select'>, rows: Pick<Shift, 'id' | 'reviewState'>[]) {
   const map = new Map<number, ShiftReviewSummary>()
   if (!rows.length) return map
-  const versions = new Map(rows.map(r => [r.id, r.version]))
+  const states = new Map(rows.map(r => [r.id, r.reviewState]))
   const found = db.select({ shiftId: reviews.shiftId, decision: reviews.decision, mitigations: reviews.mitigations, note: reviews.note, at: reviews.createdAt, shiftVersion: reviews.shiftVersion, reviewerName: people.name })
     .from(reviews).innerJoin(people, eq(people.id, reviews.reviewerId))
     .where(inArray(reviews.shiftId, rows.map(r => r.id))).orderBy(desc(reviews.id)).all()
   for (const r of found) {
     if (map.has(r.shiftId)) continue
-    map.set(r.shiftId, { decision: r.decision, mitigations: r.mitigations, note: r.note, reviewerName: r.reviewerName, at: r.at.toISOString(), current: r.shiftVersion === versions.get(r.shiftId) })
+    map.set(r.shiftId, { decision: r.decision, mitigations: r.mitigations, note: r.note, reviewerName: r.reviewerName, at: r.at.toISOString(), current: states.get(r.shiftId) === r.decision })
   }
   return map
 }

@@ -144,7 +144,7 @@ describe('a change after a decision', () => {
     await world.safety.post(`/api/shifts/${shift.id}/review`, APPROVAL)
     // a new title is not a material change: the approval stands
     const renamed = await world.coordinator.patch(`/api/shifts/${shift.id}`, { title: 'Reopened task (renamed)' })
-    expect(renamed.body).toMatchObject({ reviewState: 'approved', review: { decision: 'approved' } })
+    expect(renamed.body).toMatchObject({ reviewState: 'approved', review: { decision: 'approved', current: true } })
     // a later end is: the shift goes back to the queue
     const later = renamed.body.end.replace('T01:00:00', 'T01:30:00')
     const moved = await world.coordinator.patch(`/api/shifts/${shift.id}`, { end: later, version: renamed.body.version })
