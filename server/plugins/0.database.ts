@@ -1,5 +1,9 @@
 // Applies the drizzle-kit migrations at start-up, in every environment, before any request.
 export default defineNitroPlugin(() => {
+  if (isDatabaseReadOnly()) {
+    console.warn('[gloamline] database opened read-only (DATABASE_READ_ONLY=1): reads are served, every write answers 503')
+    return
+  }
   const started = Date.now()
   applyMigrations(useDB())
   console.info(`[gloamline] database ready (${process.env.DATABASE_PATH || '.data/gloamline.sqlite'}, migrations in ${Date.now() - started} ms)`)

@@ -10,10 +10,10 @@ export type AppDatabase = BetterSQLite3Database<typeof schema> & { $client: Data
 let current: AppDatabase | undefined
 
 /** Opens a SQLite file with WAL and foreign keys on, wrapped in Drizzle with the app's schema. */
-export function openDatabase(path: string): AppDatabase {
-  if (path !== ':memory:') mkdirSync(dirname(resolve(path)), { recursive: true })
-  const sqlite = new Database(path)
-  sqlite.pragma('journal_mode = WAL')
+export function openDatabase(path: string, options: { readonly?: boolean } = {}): AppDatabase {
+  if (path !== ':memory:' && !options.readonly) mkdirSync(dirname(resolve(path)), { recursive: true })
+  const sqlite = new Database(path, { readonly: options.readonly === true })
+  if (!options.readonly) sqlite.pragma('journal_mode = WAL')
   sqlite.pragma('foreign_keys = ON')
   sqlite.pragma('busy_timeout = 5000')
   return drizzle(sqlite, { schema }) as AppDatabase
@@ -37,9 +37,14 @@ export function applyMigrations(db: AppDatabase, dir = findMigrationsDir()) {
   migrate(db, { migrationsFolder: dir })
 }
 
+/** True when DATABASE_READ_ONLY=1: a maintenance mode that serves reads and answers writes with 503. */
+export function isDatabaseReadOnly() {
+  return process.env.DATABASE_READ_ONLY === '1'
+}
+
 /** The process-wide database handle, opened on first use from DATABASE_PATH. */
 export function useDB(): AppDatabase {
-  if (!current) current = openDatabase(process.env.DATABASE_PATH || '.data/gloamline.sqlite')
+  if (!current) current = openDatabase(process.env.DATABASE_PATH || '.data/gloamline.sqlite', { readonly: isDatabaseReadOnly() })
   return current
 }
 

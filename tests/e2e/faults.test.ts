@@ -61,3 +61,25 @@ describe('faults', () => {
     expect((await again.get('/api/sites')).status).toBe(200)
   }, 60_000)
 })
+
+describe('a read-only database file', () => {
+  it('serves reads and answers every write with 503 and a message', async () => {
+    const first = await startAppServer({ env: { REQUEST_LOG: 'off' } })
+    running.push(first)
+    const signedIn = await signedInClient(first, 'coordinator@gloamline.test')
+    first.process.kill('SIGTERM')
+    await new Promise(r => first.process.once('exit', r))
+    const readOnly = await startAppServer({ databasePath: first.databasePath, env: { REQUEST_LOG: 'off', DATABASE_READ_ONLY: '1' } })
+    running.push(readOnly)
+    const client = await signedInClient(readOnly, 'coordinator@gloamline.test')
+    expect(signedIn.cookie).not.toBe('')
+    expect((await client.get('/api/sites')).status).toBe(200)
+    const write = await client.post('/api/sites', { name: 'Read-only site', latitude: 70, longitude: 20, timezone: 'Europe/Oslo' })
+    expect(write.status).toBe(503)
+    expect(write.body.message).toMatch(/cannot be written/)
+    const shifts = (await client.get('/api/shifts')).body
+    const moved = await client.patch(`/api/shifts/${shifts[0].id}`, { title: 'Renamed while read-only' })
+    expect(moved.status).toBe(503)
+    expect(countRows(first.databasePath, 'sites')).toBe((await client.get('/api/sites')).body.length)
+  }, 60_000)
+})

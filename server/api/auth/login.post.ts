@@ -8,7 +8,8 @@ const BodySchema = z.object({
 
 export default defineEventHandler(async (event) => {
   const { email, password } = await readBodyAs(event, BodySchema)
-  if (countRecentLoginFailures(email) >= LOGIN_MAX_FAILURES) {
+  const failures = countRecentLoginFailures(email)
+  if (failures >= LOGIN_MAX_FAILURES) {
     throw createError({ statusCode: 429, statusMessage: 'Too Many Requests', message: 'Too many failed sign-ins for this e-mail. Wait 15 minutes and try again.' })
   }
   const person = findPersonByEmail(email)
@@ -18,7 +19,7 @@ export default defineEventHandler(async (event) => {
     recordLoginFailure(email)
     throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'Wrong e-mail or password' })
   }
-  clearLoginFailures(email)
+  if (failures > 0) clearLoginFailures(email)
   if (passwordNeedsReHash(person.passwordHash)) updatePasswordHash(person.id, await hashPassword(password))
   const user = { id: person.id, email: person.email, name: person.name, role: person.role }
   await setUserSession(event, { user, loggedInAt: Date.now() })
