@@ -1,6 +1,7 @@
 import type { AppDatabase } from '../server/utils/db'
 import { checkShiftLight } from '../server/utils/light-check'
-import { addDaysToDate, localDateOf } from '../server/utils/zoned'
+import { localDateOf } from '../server/utils/zoned'
+import { addDays } from '../shared/format'
 import { people, shiftAssignees, shifts, sites } from '../server/db/schema'
 
 // A synthetic load scenario (benchmarks only): 6 sites, 50 people, 2,000 shifts over half a year
@@ -41,9 +42,9 @@ export function seedLoadScenario(db: AppDatabase, passwordHash: string, now: num
       sites: siteRows.length,
       coordinatorEmail: personRows[0]!.email,
       weekFrom: today,
-      weekTo: addDaysToDate(today, 7),
+      weekTo: addDays(today, 7),
       monthFrom: today,
-      monthTo: addDaysToDate(today, 30),
+      monthTo: addDays(today, 30),
       contestedShiftIds: ids.slice(1000, 1005)
     }
   })

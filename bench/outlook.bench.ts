@@ -13,7 +13,8 @@ import { computeYearChart } from '../server/utils/year-chart'
 import { computeRunup } from '../server/utils/runup'
 import { loadLightBoard } from '../server/utils/light-board'
 import { searchSlots } from '../server/utils/slot-search'
-import { addDaysToDate, localDateOf, localMidnightMs } from '../server/utils/zoned'
+import { localDateOf, localMidnightMs } from '../server/utils/zoned'
+import { addDays } from '../shared/format'
 import { existsSync } from 'node:fs'
 import { OUTPUT_DIR, signedInClient, startAppServer } from '../tests/support/app-server'
 
@@ -65,9 +66,9 @@ function benchSlotSearch() {
     seedDemoScenario(db, 'bench-not-a-real-hash', now)
     const site = db.select().from(sites).all().find(s => s.name === 'Ravnvik Pipeline Yard')!
     const crewIds = db.select({ id: people.id, role: people.role }).from(people).all().filter(p => p.role === 'crew').slice(0, 6).map(p => p.id)
-    const from = addDaysToDate(localDateOf(now, site.timezone), 1)
+    const from = addDays(localDateOf(now, site.timezone), 1)
     addBusyRoster(db, crewIds, site.id, localMidnightMs(from, site.timezone))
-    const body = { siteId: site.id, durationMinutes: 180, light: 'civil' as const, from, to: addDaysToDate(from, 29), assigneeIds: crewIds, rank: 'earliest' as const, perDay: 1 }
+    const body = { siteId: site.id, durationMinutes: 180, light: 'civil' as const, from, to: addDays(from, 29), assigneeIds: crewIds, rank: 'earliest' as const, perDay: 1 }
     const sample = searchSlots(db, body, now)
     console.log(`slot search sample: ${sample.slots.length} slots on ${sample.daysWithSlots} of ${sample.daysSearched} days${sample.reason ? ` (${sample.reason})` : ''}`)
     measure('slot search, 30 days, crew of 6, civil light, 3 h', 30, 200, () => searchSlots(db, body, now))
@@ -107,9 +108,9 @@ async function benchOverHttp() {
     const kvitfjell = list.find(s => s.name === 'Kvitfjell Ice Camp')!
     const ravnvik = list.find(s => s.name === 'Ravnvik Pipeline Yard')!
     const crewIds = ((await client.get('/api/people')).body as { id: number, role: string }[]).filter(p => p.role === 'crew').slice(0, 6).map(p => p.id)
-    const from = addDaysToDate(localDateOf(Date.now(), ravnvik.timezone), 1)
+    const from = addDays(localDateOf(Date.now(), ravnvik.timezone), 1)
     await measureAsync('GET /api/sites/:id/year (78° N), built server over HTTP', 30, 150, () => client.get(`/api/sites/${kvitfjell.id}/year?year=2027`))
-    const search = { siteId: ravnvik.id, durationMinutes: 180, light: 'civil', from, to: addDaysToDate(from, 29), assigneeIds: crewIds }
+    const search = { siteId: ravnvik.id, durationMinutes: 180, light: 'civil', from, to: addDays(from, 29), assigneeIds: crewIds }
     const sample = await client.post('/api/slots/search', search)
     console.log(`over HTTP: slot search answers ${sample.status} with ${sample.body.slots?.length ?? 0} slots for ${crewIds.length} people (demo roster)`)
     await measureAsync('POST /api/slots/search, 30 days, crew of 6, over HTTP', 30, 200, () => client.post('/api/slots/search', search))

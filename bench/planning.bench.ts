@@ -14,7 +14,8 @@ import { people, shiftAssignees, shifts, sites } from '../server/db/schema'
 import { checkShiftLight } from '../server/utils/light-check'
 import { findShiftsInRange } from '../server/utils/shifts'
 import { previewShiftImport } from '../server/utils/shift-import'
-import { addDaysToDate, localDateOf } from '../server/utils/zoned'
+import { localDateOf } from '../server/utils/zoned'
+import { addDays } from '../shared/format'
 
 const TOTAL_SHIFTS = 2_000
 const LIGHT_CHECKS = 10_000
@@ -153,7 +154,7 @@ export async function runPlanningBench() {
     seedDemoScenario(db, 'bench-not-a-real-hash', now)
     addBusyRoster(db, now)
     const from = localDateOf(now, 'UTC')
-    const week = { from, to: addDaysToDate(from, 7) }
+    const week = { from, to: addDays(from, 7) }
     benchListInProcess(db, week)
     const outputDir = resolve(import.meta.dirname, '..', process.env.GLOAMLINE_OUTPUT_DIR || '.output')
     if (existsSync(join(outputDir, 'server/index.mjs'))) await benchListOverHttp(outputDir, week)

@@ -1,7 +1,8 @@
 import { sql } from 'drizzle-orm'
 import type { AppDatabase } from '../utils/db'
 import { checkShiftLight } from '../utils/light-check'
-import { addDaysToDate, localDateOf, resolveLocalOrInstant } from '../utils/zoned'
+import { localDateOf, resolveLocalOrInstant } from '../utils/zoned'
+import { addDays } from '../../shared/format'
 import { crewMembers, crews, people, reviews, shiftAssignees, shifts, sites, unavailability, type NewShift } from './schema'
 
 // The demo scenario: an invented operator, Northwake Field Services, with invented sites at real
@@ -96,7 +97,7 @@ export function seedDemoScenario(db: AppDatabase, passwordHash: string, now = Da
     for (const site of siteRows) {
       const today = localDateOf(now, site.timezone)
       for (let offset = -14; offset <= 21; offset++) {
-        const date = addDaysToDate(today, offset)
+        const date = addDays(today, offset)
         const weekday = new Date(`${date}T12:00:00Z`).getUTCDay()
         for (const { hour, hours, title, light, people: emails, days } of PATTERNS[site.name]!) {
           if (!days.includes(weekday)) continue

@@ -1,14 +1,5 @@
-// A faster twin of formatZonedIso (zoned.ts) for lists: date-fns-tz asks Intl for every instant
-// (tens of µs each), while the light engine keeps each zone's offset changes per year and formats by
-// arithmetic. Output is the same text, `yyyy-MM-ddTHH:mm:ss` plus `Z` or `±HH:MM` (checked against
-// date-fns-tz in tests/unit/conflicts-instant-format.test.ts). No framework imports.
-import { formatInstantInZone } from './light'
-
-/** An instant as ISO 8601 with the zone's offset, to the second (truncated), `Z` for a zero offset. */
-export function formatSiteInstant(ms: number, timezone: string): string {
-  const text = formatInstantInZone(Math.floor(ms / 1000) * 1000, timezone)
-  return text.endsWith('+00:00') ? `${text.slice(0, -6)}Z` : text
-}
+// Wall-clock times read fast, for imports of thousands of rows. No framework imports.
+import { formatZonedIso } from './zoned'
 
 const TWIN_DISTANCES_MS = [1_800_000, 3_600_000, 7_200_000]
 
@@ -27,9 +18,9 @@ function readOffsetMs(iso: string): number {
 export function resolveWallTimeOnce(wall: string, timezone: string): number | null {
   const wallMs = Date.parse(`${wall}Z`)
   if (Number.isNaN(wallMs)) return null
-  const guess = wallMs - readOffsetMs(formatSiteInstant(wallMs, timezone))
-  const ms = wallMs - readOffsetMs(formatSiteInstant(guess, timezone))
-  const at = (t: number) => formatSiteInstant(t, timezone).slice(0, 19)
+  const guess = wallMs - readOffsetMs(formatZonedIso(wallMs, timezone))
+  const ms = wallMs - readOffsetMs(formatZonedIso(guess, timezone))
+  const at = (t: number) => formatZonedIso(t, timezone).slice(0, 19)
   if (at(ms) !== wall) return null
   // a time that happens twice has its twin one offset change away: 30 min (Lord Howe), 1 h, 2 h (Troll)
   const twinned = TWIN_DISTANCES_MS.some(d => at(ms - d) === wall || at(ms + d) === wall)

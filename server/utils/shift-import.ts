@@ -13,8 +13,9 @@ import { readCsvTable, writeCsvText, type CsvRow } from './import-csv'
 import { announceShiftChange } from './shift-notices'
 import { MAX_SHIFT_MS } from './shifts'
 import { initialReviewState } from './shift-writes'
-import { addDaysToDate, localDateOf, resolveLocalOrInstant } from './zoned'
-import { formatSiteInstant, resolveWallTimeOnce } from './instant-format'
+import { formatZonedIso, localDateOf, resolveLocalOrInstant } from './zoned'
+import { addDays } from '../../shared/format'
+import { resolveWallTimeOnce } from './instant-format'
 import { InstantSchema } from './validation'
 
 export const SHIFT_IMPORT_COLUMNS = ['site', 'title', 'start', 'end', 'light', 'assignees', 'notes']
@@ -64,8 +65,8 @@ type Reader = Pick<AppDatabase, 'select'>
 
 /** The downloadable template: the header and two example rows of the demo scenario, dated tomorrow. */
 export function buildShiftImportTemplate(nowMs = Date.now()): string {
-  const camp = addDaysToDate(localDateOf(nowMs, 'Arctic/Longyearbyen'), 1)
-  const yard = addDaysToDate(localDateOf(nowMs, 'Europe/Oslo'), 1)
+  const camp = addDays(localDateOf(nowMs, 'Arctic/Longyearbyen'), 1)
+  const yard = addDays(localDateOf(nowMs, 'Europe/Oslo'), 1)
   return writeCsvText(SHIFT_IMPORT_COLUMNS, [
     ['Kvitfjell Ice Camp', 'Snow-machine route check', `${camp} 09:00`, `${camp} 13:00`, 'civil', 'crew@gloamline.test;liv.aasen@gloamline.test', 'Carry the route flags; bear watch on the ridge'],
     ['Ravnvik Pipeline Yard', 'Crossing inspection', `${yard} 10:30`, `${yard} 13:30`, 'daylight', 'sofia.marchetti@gloamline.test', '']
@@ -178,7 +179,7 @@ function parseShiftRow(row: CsvRow, lookups: Lookups): ParsedRow {
   const assigneeIds = readAssignees(row.cells.get('assignees') ?? '', lookups, errors)
   const preview: ShiftImportRow = { row: row.row, ok: errors.length === 0, errors }
   if (preview.ok && site && light && startMs !== undefined && endMs !== undefined) {
-    preview.shift = { siteId: site.id, siteName: site.name, title, start: formatSiteInstant(startMs, site.timezone), end: formatSiteInstant(endMs, site.timezone), light, assigneeIds, notes }
+    preview.shift = { siteId: site.id, siteName: site.name, title, start: formatZonedIso(startMs, site.timezone), end: formatZonedIso(endMs, site.timezone), light, assigneeIds, notes }
     preview.timeNotes = timeNotes
   }
   return { preview, site, startMs, endMs }

@@ -1,4 +1,5 @@
 import { formatInTimeZone, fromZonedTime, getTimezoneOffset, toZonedTime } from 'date-fns-tz'
+import { formatInstantInZone } from './light'
 
 const LOCAL_RE = /^(\d{4}-\d{2}-\d{2})T(\d{2}):(\d{2})(?::(\d{2}))?$/
 
@@ -18,15 +19,14 @@ export function localDateOf(ms: number, timezone: string): string {
   return formatInTimeZone(ms, timezone, 'yyyy-MM-dd')
 }
 
-/** An instant as ISO 8601 with the zone's offset, to the second. */
+/**
+ * An instant as ISO 8601 with the zone's offset, to the second (truncated), `Z` for a zero offset.
+ * Formats from the light engine's cached offset tables rather than asking Intl for every instant:
+ * lists format hundreds of these (same text as date-fns-tz, tests/unit/conflicts-instant-format.test.ts).
+ */
 export function formatZonedIso(ms: number, timezone: string): string {
-  return formatInTimeZone(ms, timezone, "yyyy-MM-dd'T'HH:mm:ssXXX")
-}
-
-/** Adds whole days to a YYYY-MM-DD date. */
-export function addDaysToDate(date: string, days: number): string {
-  const [y, m, d] = date.split('-').map(Number) as [number, number, number]
-  return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10)
+  const text = formatInstantInZone(Math.floor(ms / 1000) * 1000, timezone)
+  return text.endsWith('+00:00') ? `${text.slice(0, -6)}Z` : text
 }
 
 /**

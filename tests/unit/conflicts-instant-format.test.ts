@@ -1,19 +1,20 @@
 import { formatInTimeZone, fromZonedTime } from 'date-fns-tz'
 import { describe, expect, it } from 'vitest'
-import { formatSiteInstant, resolveWallTimeOnce } from '../../server/utils/instant-format'
+import { resolveWallTimeOnce } from '../../server/utils/instant-format'
+import { formatZonedIso } from '../../server/utils/zoned'
 
-// The shift lists format their times with formatSiteInstant for speed; the reference is date-fns-tz
+// The shift lists format their times with formatZonedIso for speed; the reference is date-fns-tz
 // (npm), the library behind formatZonedIso, with the pattern the API has always used.
 const REFERENCE_PATTERN = "yyyy-MM-dd'T'HH:mm:ssXXX"
 const ZONES = ['Europe/Oslo', 'Arctic/Longyearbyen', 'America/Nuuk', 'America/Whitehorse', 'Antarctica/McMurdo', 'UTC', 'Europe/London', 'America/St_Johns', 'Asia/Kathmandu', 'Australia/Lord_Howe', 'Pacific/Chatham', 'Antarctica/Troll']
 
-describe('formatSiteInstant', () => {
+describe('formatZonedIso', () => {
   it('writes the same text as date-fns-tz for every zone, every six hours or so over two years', () => {
     const mismatches: string[] = []
     for (let ms = Date.UTC(2026, 0, 1); ms < Date.UTC(2028, 0, 1); ms += 6 * 3_600_000 + 7 * 60_000 + 13_500) {
       for (const zone of ZONES) {
         const reference = formatInTimeZone(ms, zone, REFERENCE_PATTERN)
-        if (formatSiteInstant(ms, zone) !== reference) mismatches.push(`${zone} ${ms} ${formatSiteInstant(ms, zone)} ≠ ${reference}`)
+        if (formatZonedIso(ms, zone) !== reference) mismatches.push(`${zone} ${ms} ${formatZonedIso(ms, zone)} ≠ ${reference}`)
       }
     }
     expect(mismatches).toEqual([])
@@ -22,10 +23,10 @@ describe('formatSiteInstant', () => {
   it('agrees on both sides of the EU changes of 2027 and a zero offset', () => {
     // EU summer time 2027: from 01:00 UTC on 28 March to 01:00 UTC on 31 October (Directive 2000/84/EC)
     for (const ms of [Date.UTC(2027, 2, 28, 0, 59, 59), Date.UTC(2027, 2, 28, 1), Date.UTC(2027, 9, 31, 0, 59, 59), Date.UTC(2027, 9, 31, 1)]) {
-      expect(formatSiteInstant(ms, 'Europe/Oslo')).toBe(formatInTimeZone(ms, 'Europe/Oslo', REFERENCE_PATTERN))
+      expect(formatZonedIso(ms, 'Europe/Oslo')).toBe(formatInTimeZone(ms, 'Europe/Oslo', REFERENCE_PATTERN))
     }
-    expect(formatSiteInstant(Date.UTC(2027, 2, 28, 1), 'Europe/Oslo')).toBe('2027-03-28T03:00:00+02:00')
-    expect(formatSiteInstant(Date.UTC(2027, 0, 5, 12, 0, 0, 999), 'UTC')).toBe('2027-01-05T12:00:00Z')
+    expect(formatZonedIso(Date.UTC(2027, 2, 28, 1), 'Europe/Oslo')).toBe('2027-03-28T03:00:00+02:00')
+    expect(formatZonedIso(Date.UTC(2027, 0, 5, 12, 0, 0, 999), 'UTC')).toBe('2027-01-05T12:00:00Z')
   })
 })
 

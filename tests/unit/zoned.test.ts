@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { addDaysToDate, formatZonedIso, localDateOf, localMidnightMs, resolveLocalOrInstant } from '../../server/utils/zoned'
+import { formatZonedIso, localDateOf, localMidnightMs, resolveLocalOrInstant } from '../../server/utils/zoned'
+import { addDays } from '../../shared/format'
 
 // Offsets and transition instants from the IANA tz database (Europe/Oslo: CET/CEST, EU rule,
 // last Sunday of March 01:00 UTC and of October 01:00 UTC).
@@ -20,8 +21,8 @@ describe('local days and times in IANA zones', () => {
   })
 
   it('adds days across month and year ends', () => {
-    expect(addDaysToDate('2026-12-31', 1)).toBe('2027-01-01')
-    expect(addDaysToDate('2028-03-01', -1)).toBe('2028-02-29')
+    expect(addDays('2026-12-31', 1)).toBe('2027-01-01')
+    expect(addDays('2028-03-01', -1)).toBe('2028-02-29')
   })
 
   it('reads a wall-clock time in the site zone and says which instant it chose in a gap or overlap', () => {
