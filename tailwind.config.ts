@@ -34,11 +34,11 @@ export default {
       },
       // one type scale for the whole app: body 17–18 px, key figures 24 px and up (LOOK.md)
       fontSize: {
-        sm: ['0.9375rem', { lineHeight: '1.4rem' }],
-        base: ['1.0625rem', { lineHeight: '1.6rem' }],
-        lg: ['1.1875rem', { lineHeight: '1.7rem' }],
-        xl: ['1.375rem', { lineHeight: '1.9rem' }],
-        figure: ['1.625rem', { lineHeight: '2rem', fontWeight: '600' }],
+        'sm': ['0.9375rem', { lineHeight: '1.4rem' }],
+        'base': ['1.0625rem', { lineHeight: '1.6rem' }],
+        'lg': ['1.1875rem', { lineHeight: '1.7rem' }],
+        'xl': ['1.375rem', { lineHeight: '1.9rem' }],
+        'figure': ['1.625rem', { lineHeight: '2rem', fontWeight: '600' }],
         '2xl': ['1.75rem', { lineHeight: '2.2rem' }],
         '3xl': ['2.125rem', { lineHeight: '2.5rem' }]
       },

@@ -8,8 +8,8 @@ import { Body, MakeTime, Observer, SearchAltitude, SearchHourAngle } from 'astro
 import { fromZonedTime } from 'date-fns-tz'
 import { getTimes } from 'suncalc'
 import { pathToFileURL } from 'node:url'
-import { clearTimeZoneCache, computeLightDays, computeLightDaysMs } from '../server/utils/light'
-import { checkShiftLight } from '../server/utils/light-check'
+import { clearTimeZoneCache, computeLightDays, computeLightDaysMs } from '../server/core/light/index'
+import { checkShiftLight } from '../server/core/light/check'
 import { LIGHT_REQUIREMENT_KINDS } from '../shared/light'
 
 const THRESHOLDS = [-18, -12, -6, -0.833]

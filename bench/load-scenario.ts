@@ -1,6 +1,6 @@
 import type { AppDatabase } from '../server/utils/db'
-import { checkShiftLight } from '../server/utils/light-check'
-import { localDateOf } from '../server/utils/zoned'
+import { checkShiftLight } from '../server/core/light/check'
+import { localDateOf } from '../server/core/time/zoned'
 import { addDays } from '../shared/format'
 import { people, shiftAssignees, shifts, sites } from '../server/db/schema'
 

@@ -46,8 +46,7 @@ async function runWriters(url: string, client: ApiClient, shiftIds: number[]) {
         const list = accepted.get(id) ?? []
         list.push({ version: reply.body.version, start: reply.body.start })
         accepted.set(id, list)
-      }
-      else if (reply.status === 409) refused++
+      } else if (reply.status === 409) refused++
       else other++
     }
   }
@@ -82,8 +81,7 @@ export async function runLoadBench() {
     const writes = await runWriters(server.url, client, scenario.contestedShiftIds)
     const ok = week.p99 < 100 && light.p99 < 100 && week.errors === 0 && light.errors === 0 && writes.lost === 0 && writes.other === 0
     console.log(ok ? 'targets met: p99 < 100 ms, no errors, no lost update' : 'TARGETS MISSED (see figures above)')
-  }
-  finally {
+  } finally {
     await server.stop()
     rmSync(dir, { recursive: true, force: true })
   }

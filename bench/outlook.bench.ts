@@ -1,21 +1,20 @@
 // Light outlook benchmarks: the year chart's data for one site (target < 150 ms) and a slot search
 // over 30 days for a crew of 6 (target < 200 ms), each as the route computes it (the slot search on a
 // fresh SQLite database with the demo scenario and a busy extra roster). Prints figures; asserts nothing.
-import { mkdtempSync, rmSync } from 'node:fs'
+import { existsSync, mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
 import { pathToFileURL } from 'node:url'
 import { applyMigrations, openDatabase, type AppDatabase } from '../server/utils/db'
 import { seedDemoScenario } from '../server/db/seed'
 import { people, shiftAssignees, shifts, sites } from '../server/db/schema'
-import { clearTimeZoneCache } from '../server/utils/light'
-import { computeYearChart } from '../server/utils/year-chart'
-import { computeRunup } from '../server/utils/runup'
-import { loadLightBoard } from '../server/utils/light-board'
-import { searchSlots } from '../server/utils/slot-search'
-import { localDateOf, localMidnightMs } from '../server/utils/zoned'
+import { clearTimeZoneCache } from '../server/core/light/index'
+import { computeYearChart } from '../server/core/light/year-chart'
+import { computeRunup } from '../server/core/light/runup'
+import { loadLightBoard } from '../server/services/light-board'
+import { searchSlots } from '../server/services/slot-search'
+import { localDateOf, localMidnightMs } from '../server/core/time/zoned'
 import { addDays } from '../shared/format'
-import { existsSync } from 'node:fs'
 import { OUTPUT_DIR, signedInClient, startAppServer } from '../tests/support/app-server'
 
 const KVITFJELL = { siteId: 1, latitude: 78.2232, longitude: 15.6267, timezone: 'Arctic/Longyearbyen', year: 2027 }
@@ -75,8 +74,7 @@ function benchSlotSearch() {
     measure('slot search, same, any 4 of the 6, ranked by margin, 4 a day', 30, 200, () => searchSlots(db, { ...body, headcount: 4, rank: 'margin', perDay: 4 }, now))
     measure('light board, every demo site (next-change cache warm)', 30, null, () => loadLightBoard(db, now, 4))
     db.$client.close()
-  }
-  finally {
+  } finally {
     rmSync(dir, { recursive: true, force: true })
   }
 }
@@ -114,11 +112,9 @@ async function benchOverHttp() {
     const sample = await client.post('/api/slots/search', search)
     console.log(`over HTTP: slot search answers ${sample.status} with ${sample.body.slots?.length ?? 0} slots for ${crewIds.length} people (demo roster)`)
     await measureAsync('POST /api/slots/search, 30 days, crew of 6, over HTTP', 30, 200, () => client.post('/api/slots/search', search))
-  }
-  catch (err) {
+  } catch (err) {
     console.log(`over HTTP: not measured (${(err as Error).message.split('\n')[0]})`)
-  }
-  finally {
+  } finally {
     await server.stop()
   }
 }

@@ -11,10 +11,10 @@ import { sql } from 'drizzle-orm'
 import { applyMigrations, openDatabase, type AppDatabase } from '../server/utils/db'
 import { seedDemoScenario } from '../server/db/seed'
 import { people, shiftAssignees, shifts, sites } from '../server/db/schema'
-import { checkShiftLight } from '../server/utils/light-check'
-import { findShiftsInRange } from '../server/utils/shifts'
-import { previewShiftImport } from '../server/utils/shift-import'
-import { localDateOf } from '../server/utils/zoned'
+import { checkShiftLight } from '../server/core/light/check'
+import { findShiftsInRange } from '../server/services/shifts'
+import { previewShiftImport } from '../server/services/shift-import'
+import { localDateOf } from '../server/core/time/zoned'
 import { addDays } from '../shared/format'
 
 const TOTAL_SHIFTS = 2_000
@@ -105,8 +105,7 @@ async function benchListOverHttp(outputDir: string, week: { from: string, to: st
       if (i >= 10) times.push(performance.now() - t)
     }
     report(`GET /api/shifts one week, all sites (HTTP, ${outputDir.split('/').pop()})`, times, 50)
-  }
-  finally {
+  } finally {
     await server.stop()
   }
 }
@@ -162,8 +161,7 @@ export async function runPlanningBench() {
     benchLightChecks()
     benchImportPreview(db)
     db.$client.close()
-  }
-  finally {
+  } finally {
     rmSync(dir, { recursive: true, force: true })
   }
 }

@@ -1,8 +1,8 @@
 import { describeLightState, type ShiftCheckReply, type ShiftDraft, type ShiftItem } from '#shared/planning'
 
-export type ShiftActionResult =
-  | { ok: true, shift: ShiftItem }
-  | { ok: false, status: number, message: string, fields: Record<string, string> }
+export type ShiftActionResult
+  = | { ok: true, shift: ShiftItem }
+    | { ok: false, status: number, message: string, fields: Record<string, string> }
 
 function failure(err: unknown): ShiftActionResult {
   const status = (err as { statusCode?: number, status?: number })?.statusCode ?? (err as { status?: number })?.status ?? 0
@@ -17,7 +17,7 @@ function toBody(draft: ShiftDraft) {
 }
 
 /** Every change to a shift, one function each: saves, refreshes what changed and tells the person. */
-export function useShiftActions(refresh: () => Promise<unknown> | void = () => {}) {
+export function useShiftActions(refresh: () => unknown = () => undefined) {
   const { say } = useNotice()
 
   async function report(result: ShiftActionResult, done: string) {
@@ -26,8 +26,7 @@ export function useShiftActions(refresh: () => Promise<unknown> | void = () => {
       const conflicts = result.shift.conflicts?.length ?? 0
       const notes = result.shift.timeNotes?.length ? ` ${result.shift.timeNotes.join('. ')}.` : ''
       say(`${done}${notes}${conflicts && !result.shift.conflictOverride ? ` ${conflicts} conflict warning${conflicts > 1 ? 's' : ''}: open the shift to give a reason or change it.` : ''}`, conflicts || notes ? 'warning' : 'success')
-    }
-    else say(result.message, 'error')
+    } else say(result.message, 'error')
     return result
   }
 

@@ -27,13 +27,11 @@ export function useShiftPreview(draft: Ref<ShiftDraft>, shiftId: Ref<number | nu
       if (mine !== asked) return
       check.value = reply
       error.value = ''
-    }
-    catch (err) {
+    } catch (err) {
       if (mine !== asked) return
       check.value = null
       error.value = describeFetchError(err)
-    }
-    finally {
+    } finally {
       if (mine === asked) loading.value = false
     }
   }

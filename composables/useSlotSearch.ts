@@ -27,13 +27,11 @@ export function useSlotSearch() {
     fields.value = {}
     try {
       result.value = await $fetch<SlotSearchResult>('/api/slots/search', { method: 'POST', body: query })
-    }
-    catch (err) {
+    } catch (err) {
       result.value = null
       error.value = describeFetchError(err)
       fields.value = fieldErrorsFrom(err)
-    }
-    finally {
+    } finally {
       busy.value = false
     }
   }

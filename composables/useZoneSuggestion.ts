@@ -30,8 +30,7 @@ export function useZoneSuggestion(lat: Ref<number | null>, lon: Ref<number | nul
       suggestion.value = s
       chosen.value = c
       error.value = ''
-    }
-    catch (err) {
+    } catch (err) {
       error.value = describeFetchError(err)
     }
   }

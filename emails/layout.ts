@@ -1,7 +1,7 @@
 // The frame every Gloamline message shares: a plain table layout with inline styles (mail clients
 // ignore style sheets), our colours, big figures, and the deference line. Every value that reaches
 // the HTML goes through escapeHtml.
-import type { MailContent } from '../server/utils/mail'
+import type { MailContent } from '../server/adapters/mail'
 
 export type { MailContent }
 

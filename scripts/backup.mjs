@@ -13,8 +13,7 @@ export async function backupDatabase(source, destination) {
   try {
     const result = await db.backup(destination)
     return { destination, pages: result.totalPages, ms: Date.now() - started }
-  }
-  finally {
+  } finally {
     db.close()
   }
 }

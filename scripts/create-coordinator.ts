@@ -5,7 +5,7 @@ import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { eq } from 'drizzle-orm'
 import { people } from '../server/db/schema'
 import { applyMigrations, openDatabase } from '../server/utils/db'
-import { findPasswordProblem } from '../server/utils/password-policy'
+import { findPasswordProblem } from '../server/core/accounts/password-policy'
 
 const [email, name] = process.argv.slice(2)
 const password = process.env.GLOAMLINE_PASSWORD ?? ''

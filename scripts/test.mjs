@@ -9,5 +9,6 @@ function run(cmd, args) {
   if (result.status !== 0) process.exit(result.status ?? 1)
 }
 
+if (process.env.SKIP_LINT !== '1') run('npx', ['eslint', '.'])
 if (process.env.SKIP_BUILD !== '1') run('npx', ['nuxt', 'build'])
 run('npx', ['vitest', 'run', ...process.argv.slice(2)])

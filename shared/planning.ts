@@ -2,10 +2,11 @@
 // light state. Pure: imports neither Vue nor Nitro.
 import type { BandKind, LightDay, LightRequirement } from './light'
 import { formatDuration } from './format'
+import type { ReviewState, ShiftConflict, ShiftConflictKind as ConflictKind, ShiftReply as ShiftItem } from './types/shift'
 
-export type ReviewState = 'not-needed' | 'pending' | 'approved' | 'rejected' | 'changes-requested'
+export type { ReviewState, ShiftConflict, ShiftReply as ShiftItem } from './types/shift'
 export type Role = 'coordinator' | 'safety' | 'crew'
-export type ConflictKind = 'overlap' | 'rest' | 'long' | 'unavailable'
+export type { ShiftConflictKind as ConflictKind } from './types/shift'
 
 export interface SiteItem {
   id: number
@@ -34,36 +35,6 @@ export interface SiteBody {
 
 export interface PersonItem { id: number, name: string, email: string, role: Role, active: boolean }
 export interface CrewItem { id: number, name: string, members: { id: number, name: string, role: Role }[] }
-
-export interface ShiftConflict {
-  kind: ConflictKind
-  personId: number
-  personName: string
-  otherShiftId: number | null
-  message: string
-}
-
-export interface ShiftItem {
-  id: number
-  siteId: number
-  siteName: string
-  timezone: string
-  title: string
-  start: string
-  end: string
-  light: LightRequirement
-  notes: string
-  assigneeIds: number[]
-  assignees: { id: number, name: string }[]
-  lightCheck: { requirement: LightRequirement, minutesBelow: number, flagged: boolean }
-  reviewState: ReviewState
-  review: { decision: string, mitigations: string[], note: string, reviewerName: string, at: string, current: boolean } | null
-  conflictOverride: string | null
-  conflicts?: ShiftConflict[]
-  version: number
-  cancelled: boolean
-  timeNotes?: string[]
-}
 
 /** The body of POST /api/shifts and /api/shifts/check. */
 export interface ShiftDraft {

@@ -1,3 +1,5 @@
+import { computeLightDays } from '../core/light/index'
+
 const cache = createReplyCache(300)
 
 export default defineEventHandler(async (event) => {

@@ -1,3 +1,5 @@
+import { computeSeasons } from '../core/light/seasons'
+
 export default defineEventHandler(async (event) => {
   await requireRole(event)
   const q = readQueryAs(event, SeasonsQuerySchema)

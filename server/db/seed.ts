@@ -1,7 +1,7 @@
 import { sql } from 'drizzle-orm'
 import type { AppDatabase } from '../utils/db'
-import { checkShiftLight } from '../utils/light-check'
-import { localDateOf, resolveLocalOrInstant } from '../utils/zoned'
+import { checkShiftLight } from '../core/light/check'
+import { localDateOf, resolveLocalOrInstant } from '../core/time/zoned'
 import { addDays } from '../../shared/format'
 import { crewMembers, crews, people, reviews, shiftAssignees, shifts, sites, unavailability, type NewShift } from './schema'
 

@@ -27,11 +27,9 @@ export default defineNitroPlugin((nitroApp) => {
         const outcome = await refreshSiteForecast(db, site, { ...settings, actorId: null })
         if (!outcome.refreshed) console.warn(`[gloamline] forecast for site ${site.id} not refreshed: ${outcome.status} (${outcome.message})`)
       }
-    }
-    catch (error) {
+    } catch (error) {
       console.error('[gloamline] forecast refresh failed', error)
-    }
-    finally {
+    } finally {
       running = false
     }
   }

@@ -1,4 +1,5 @@
 import { seedReady } from './1.seed'
+import { closeMailTransports } from '../adapters/mail'
 
 // Scheduled sending: once a minute, queue the reminders that are due (each site's reminderHour in its
 // own zone has come, for the next local day) and send whatever the outbox has due, including failed
@@ -19,11 +20,9 @@ export default defineNitroPlugin((nitroApp) => {
       const db = useDB()
       queueDueReminders(db, Date.now(), resolvePublicBaseUrl())
       await deliverDueOutboxMessages(db, Date.now())
-    }
-    catch (err) {
+    } catch (err) {
       console.error('[gloamline] reminder timer tick failed', err)
-    }
-    finally {
+    } finally {
       running = false
     }
   }

@@ -5,8 +5,7 @@ export default defineEventHandler((event) => {
   try {
     const row = useDB().get<{ n: number }>(sql`select count(*) as n from __drizzle_migrations`)
     return { status: 'ok', migrations: row?.n ?? 0 }
-  }
-  catch (err) {
+  } catch (err) {
     setResponseStatus(event, 503)
     return { status: 'unavailable', message: err instanceof Error ? err.message : 'database not reachable' }
   }

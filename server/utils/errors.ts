@@ -25,8 +25,7 @@ export async function readBodyAs<T>(event: Parameters<typeof readBody>[0], schem
   let body: unknown
   try {
     body = await readBody(event)
-  }
-  catch {
+  } catch {
     throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'The request body is not valid JSON', data: { issues: [{ field: 'body', message: 'not valid JSON' }] } })
   }
   return parseInput(schema, body ?? {}, 'body')

@@ -15,8 +15,7 @@ export const TimeZoneSchema = z.string().min(1, 'required').max(64).refine((tz) 
   try {
     new Intl.DateTimeFormat('en', { timeZone: tz })
     return true
-  }
-  catch {
+  } catch {
     return false
   }
 }, 'not an IANA time zone name')
@@ -26,7 +25,7 @@ export const TimeZoneSchema = z.string().min(1, 'required').max(64).refine((tz) 
 export const InstantSchema = z.preprocess(
   value => (typeof value === 'string' ? value.replace(/(T[\d:.]+) (\d{2}:?\d{2})$/, '$1+$2') : value),
   z.string().regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d{1,3})?)?(Z|[+-]\d{2}:?\d{2})$/, 'expected an ISO 8601 instant with an offset')
-  .refine(value => !Number.isNaN(Date.parse(value)), 'not a valid instant'))
+    .refine(value => !Number.isNaN(Date.parse(value)), 'not a valid instant'))
 
 /** A finite number in [min, max], given as a number or (from a query string) a non-empty numeric string. */
 export function numberBetween(min: number, max: number) {

@@ -46,8 +46,7 @@ describe('the crew home on a phone', () => {
       expect(text).toContain(row.label)
       if (row.moments.length) {
         for (const m of row.moments) expect(text).toContain(`${m.time} ${m.offset}`)
-      }
-      else {
+      } else {
         expect(text).toContain(row.value)
       }
     }

@@ -7,7 +7,8 @@ import Database from 'better-sqlite3'
 import ICAL from 'ical.js'
 import { Body, Observer, SearchRiseSet } from 'astronomy-engine'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { ApiClient, signedInClient, startAppServer, type AppServer } from '../support/app-server'
+import type { ApiClient, AppServer } from '../support/app-server'
+import { signedInClient, startAppServer } from '../support/app-server'
 
 let server: AppServer
 let coordinator: ApiClient

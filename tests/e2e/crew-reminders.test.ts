@@ -193,8 +193,7 @@ describe('an SMTP outage, then recovery', () => {
       expect(to.sort()).toEqual([...expected.keys()].sort())
       expect(new Set(to).size).toBe(to.length)
       expect((await coordinator.get('/api/outbox')).body.counts).toEqual({ queued: 0, sent: expected.size, failed: 0 })
-    }
-    finally {
+    } finally {
       await server.stop()
       await sink?.close()
       rmSync(dir, { recursive: true, force: true })
@@ -224,8 +223,7 @@ describe('an SMTP outage, then recovery', () => {
       // once each: as many deliveries as messages, never one address twice for the same subject
       const pairs = sink.messages.map(m => `${m.to[0]}|${m.subject}`)
       expect(new Set(pairs).size).toBe(pairs.length)
-    }
-    finally {
+    } finally {
       await server.stop()
       await sink?.close()
     }

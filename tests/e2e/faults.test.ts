@@ -11,8 +11,7 @@ function countRows(path: string, table: string) {
   const db = new Database(path, { readonly: true })
   try {
     return (db.prepare(`select count(*) as n from ${table}`).get() as { n: number }).n
-  }
-  finally {
+  } finally {
     db.close()
   }
 }
@@ -29,8 +28,7 @@ describe('faults', () => {
       const reply = await coordinator.post('/api/sites', { name: 'Locked out', latitude: 70, longitude: 20, timezone: 'Europe/Oslo' })
       expect(reply.status).toBe(503)
       expect(reply.body.message).toMatch(/cannot be written/)
-    }
-    finally {
+    } finally {
       blocker.exec('ROLLBACK')
       blocker.close()
     }

@@ -14,8 +14,7 @@ function countShifts() {
   const db = new Database(server.databasePath, { readonly: true, fileMustExist: true })
   try {
     return (db.prepare('select count(*) as n from shifts').get() as { n: number }).n
-  }
-  finally {
+  } finally {
     db.close()
   }
 }

@@ -19,8 +19,7 @@ function countRows(table: string) {
   const db = readDb()
   try {
     return (db.prepare(`select count(*) as n from ${table}`).get() as { n: number }).n
-  }
-  finally {
+  } finally {
     db.close()
   }
 }
@@ -29,8 +28,7 @@ function auditEntries(action: string, entityId: number) {
   const db = readDb()
   try {
     return (db.prepare('select detail from audit_log where action = ? and entity_id = ?').all(action, entityId) as { detail: string }[]).map(r => JSON.parse(r.detail))
-  }
-  finally {
+  } finally {
     db.close()
   }
 }

@@ -73,8 +73,7 @@ export function queryDatabase<T>(server: AppServer, sql: string, ...params: unkn
   const db = new Database(server.databasePath, { readonly: true, fileMustExist: true })
   try {
     return db.prepare(sql).all(...params) as T[]
-  }
-  finally {
+  } finally {
     db.close()
   }
 }

@@ -161,8 +161,7 @@ describe('periodic forecast refresh', () => {
       expect(sites.length).toBeGreaterThan(0)
       const states = async () => Promise.all(sites.map(async site => (await enabled.safety.get(`/api/sites/${site.id}/forecast`)).body.state))
       await expect.poll(states, { timeout: 20_000, interval: 250 }).toEqual(sites.map(() => 'fresh'))
-    }
-    finally {
+    } finally {
       await enabled.stop()
     }
   })

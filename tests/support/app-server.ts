@@ -63,8 +63,7 @@ export async function startAppServer(options: { seed?: boolean, env?: Record<str
     try {
       const res = await fetch(`${url}/health`)
       if (res.ok) break
-    }
-    catch { /* not listening yet */ }
+    } catch { /* not listening yet */ }
     if (Date.now() > deadline) throw new Error(`server did not start:\n${log}`)
     await new Promise(r => setTimeout(r, 100))
   }
@@ -105,8 +104,7 @@ export class ApiClient {
     let parsed: unknown = text
     try {
       parsed = text ? JSON.parse(text) : null
-    }
-    catch { /* not JSON */ }
+    } catch { /* not JSON */ }
     return { status: res.status, body: parsed as T, headers: res.headers }
   }
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { ColdQuerySchema, computeColdFigures } from '../../server/utils/cold'
+import { ColdQuerySchema, computeColdFigures } from '../../server/core/cold/index'
 import { COLD_CAUTIONS } from '../../shared/cold'
 
 describe('computeColdFigures (GET /api/cold shape from DESIGN.md)', () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { lookupWarmupSchedule } from '../../server/utils/cold'
+import { lookupWarmupSchedule } from '../../server/core/cold/index'
 
 // ACGIH TLVs work/warm-up schedule for a 4-hour shift (after the Saskatchewan Department of Labour),
 // as reproduced by OSHA and CCOHS and transcribed in REFERENCES.md: moderate to heavy work.

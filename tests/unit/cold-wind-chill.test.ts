@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { classifyFrostbiteRisk, computeWindChill, convertFahrenheitToCelsius, convertMphToKmh } from '../../server/utils/cold'
+import { classifyFrostbiteRisk, computeWindChill, convertFahrenheitToCelsius, convertMphToKmh } from '../../server/core/cold/index'
 
 // National Weather Service Wind Chill Chart (2001 index): [air °F, wind mph, chart °F].
 // The first two cells are the NWS examples quoted in REFERENCES.md (the second is also OSHA's

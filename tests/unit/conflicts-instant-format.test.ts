@@ -1,11 +1,11 @@
 import { formatInTimeZone, fromZonedTime } from 'date-fns-tz'
 import { describe, expect, it } from 'vitest'
-import { resolveWallTimeOnce } from '../../server/utils/instant-format'
-import { formatZonedIso } from '../../server/utils/zoned'
+import { resolveWallTimeOnce } from '../../server/core/time/instant-format'
+import { formatZonedIso } from '../../server/core/time/zoned'
 
 // The shift lists format their times with formatZonedIso for speed; the reference is date-fns-tz
 // (npm), the library behind formatZonedIso, with the pattern the API has always used.
-const REFERENCE_PATTERN = "yyyy-MM-dd'T'HH:mm:ssXXX"
+const REFERENCE_PATTERN = 'yyyy-MM-dd\'T\'HH:mm:ssXXX'
 const ZONES = ['Europe/Oslo', 'Arctic/Longyearbyen', 'America/Nuuk', 'America/Whitehorse', 'Antarctica/McMurdo', 'UTC', 'Europe/London', 'America/St_Johns', 'Asia/Kathmandu', 'Australia/Lord_Howe', 'Pacific/Chatham', 'Antarctica/Troll']
 
 describe('formatZonedIso', () => {
@@ -36,7 +36,7 @@ describe('resolveWallTimeOnce', () => {
     let declined = 0
     for (let ms = Date.UTC(2026, 0, 1); ms < Date.UTC(2028, 0, 1); ms += 7 * 3_600_000 + 11 * 60_000) {
       for (const zone of ZONES) {
-        const wall = formatInTimeZone(ms, zone, "yyyy-MM-dd'T'HH:mm:ss")
+        const wall = formatInTimeZone(ms, zone, 'yyyy-MM-dd\'T\'HH:mm:ss')
         const found = resolveWallTimeOnce(wall, zone)
         if (found === null) {
           declined++

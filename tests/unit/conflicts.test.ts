@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { findShiftConflicts, isRestTooShort, type ConflictContext, type NeighbourShift } from '../../server/utils/conflicts'
+import { findShiftConflicts, isRestTooShort, type ConflictContext, type NeighbourShift } from '../../server/core/planning/conflicts'
 
 // Outside references for the figures checked here:
 // - EU Working Time Directive 2003/88/EC, art. 3: "a minimum daily rest period of 11 consecutive

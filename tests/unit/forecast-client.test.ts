@@ -1,6 +1,6 @@
 import { createServer } from 'node:net'
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
-import { fetchHourlyForecast } from '../../server/utils/forecast'
+import { fetchHourlyForecast } from '../../server/adapters/forecast'
 import { computeFakeWeather, startFakeForecastServer } from '../../scripts/fake-forecast.mjs'
 
 // Every request here goes to the local fake on 127.0.0.1 or to a stubbed fetch: no test reaches the network.

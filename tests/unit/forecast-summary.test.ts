@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { isForecastStale, summariseForecastForWindow } from '../../server/utils/forecast'
-import type { ForecastHour } from '../../server/utils/forecast'
+import { isForecastStale, summariseForecastForWindow } from '../../server/adapters/forecast'
+import type { ForecastHour } from '../../server/adapters/forecast'
 
 const HOUR = 3_600_000
 const T0 = Date.parse('2026-12-01T06:00:00Z')

@@ -1,7 +1,7 @@
 // The shift light check against astronomy-engine 2.1.19: minutes below requirement from its own
 // SearchAltitude crossings (geometric altitude, no refraction), cross-checked by plain 10-second sampling.
 import { describe, expect, it } from 'vitest'
-import { checkShiftLight } from '../../server/utils/light-check'
+import { checkShiftLight } from '../../server/core/light/check'
 import { BANDS_MEETING_REQUIREMENT, type LightRequirement } from '../../shared/light'
 import { REFERENCE_THRESHOLDS, ReferenceTimeline, referenceAltitude, referenceMinutesOutside, sampleReferenceMinutesOutside } from './reference/sun-reference'
 

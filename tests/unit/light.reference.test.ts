@@ -3,7 +3,7 @@
 // SearchAltitude). suncalc's geometric altitude differs from it by ~0.003° typically and up to
 // ~0.016° (REFERENCES.md, "Measured here"), hence the 0.02° tolerance below.
 import { describe, expect, it } from 'vitest'
-import { computeLightDaysMs } from '../../server/utils/light'
+import { computeLightDaysMs } from '../../server/core/light/index'
 import { BAND_THRESHOLDS_ASCENDING_DEG, RISING_EVENT_BY_THRESHOLD, SETTING_EVENT_BY_THRESHOLD, type LightDayMs, type SunEventType } from '../../shared/light'
 import { REFERENCE_THRESHOLDS, ReferenceTimeline, referenceAltitude, referenceTurningAltitudes } from './reference/sun-reference'
 

@@ -15,7 +15,7 @@ import {
   sampleSunPosition,
   solveRootBrent,
   solveRootNearGuess
-} from '../../server/utils/sun'
+} from '../../server/core/sun/position'
 import { referenceAltitude, referenceAzimuth } from './reference/sun-reference'
 
 describe('suncalc refraction, undone', () => {

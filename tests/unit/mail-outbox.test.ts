@@ -7,8 +7,8 @@ import { messages } from '../../server/db/schema'
 import {
   OUTBOX_MAX_ATTEMPTS, computeRetryDelayMs, deliverDueOutboxMessages, deliverOutboxMessage,
   enqueueOutboxMessage, findDueOutboxIds, listOutboxMessages, retryFailedOutboxMessages
-} from '../../server/utils/outbox'
-import type { OutgoingMail } from '../../server/utils/mail'
+} from '../../server/services/outbox'
+import type { OutgoingMail } from '../../server/adapters/mail'
 import { createTestDatabase, removeTestDatabases } from '../support/test-database'
 
 const BASE = 60_000

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { findPasswordProblem, PASSWORD_MIN_LENGTH } from '../../server/utils/password-policy'
+import { findPasswordProblem, PASSWORD_MIN_LENGTH } from '../../server/core/accounts/password-policy'
 
 // NIST SP 800-63B §5.1.1.2: memorised secrets of at least 8 characters, checked against a list of
 // commonly used or compromised values; no composition rules. We ask for 10 (our own setting).

@@ -6,8 +6,8 @@
 import { Body, Observer, SearchAltitude, SearchRiseSet } from 'astronomy-engine'
 import { fromZonedTime } from 'date-fns-tz'
 import { describe, expect, it } from 'vitest'
-import { describeMinutesChange, describeLightRows, summariseCrewLightDays } from '../../server/utils/crew-day'
-import { localMidnightMs } from '../../server/utils/zoned'
+import { describeMinutesChange, describeLightRows, summariseCrewLightDays } from '../../server/services/crew-day'
+import { localMidnightMs } from '../../server/core/time/zoned'
 
 const MINUTE_MS = 60_000
 const TOLERANCE_MS = 2 * MINUTE_MS

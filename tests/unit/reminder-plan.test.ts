@@ -9,8 +9,8 @@ import { afterEach, describe, expect, it } from 'vitest'
 import { applyMigrations, openDatabase } from '../../server/utils/db'
 import { seedDemoScenario } from '../../server/db/seed'
 import { messages, people, shiftAssignees, shifts, sites } from '../../server/db/schema'
-import { composeReminderKey, findDueReminderTargets, planRemindersForDate, queueRemindersForDate } from '../../server/utils/reminders'
-import { localMidnightMs } from '../../server/utils/zoned'
+import { composeReminderKey, findDueReminderTargets, planRemindersForDate, queueRemindersForDate } from '../../server/services/reminders'
+import { localMidnightMs } from '../../server/core/time/zoned'
 import { addDays } from '../../shared/format'
 
 const MIGRATIONS = resolve(import.meta.dirname, '../../drizzle')

@@ -12,8 +12,8 @@ import {
   type ReviewQueueItem,
   type WeatherSample,
   type WindowWeather
-} from '../../server/utils/review-queue'
-import type { ShiftView } from '../../server/utils/shifts'
+} from '../../server/core/review/queue'
+import type { ShiftView } from '../../server/services/shifts'
 
 const MIN = 60_000
 const HOUR = 3_600_000

@@ -14,7 +14,7 @@ import {
   parseObservationCsv,
   refreshSiteForecast,
   type SiteForecastState
-} from '../../server/utils/site-weather'
+} from '../../server/services/site-weather'
 import { startFakeForecastServer } from '../../scripts/fake-forecast.mjs'
 
 // Every fetch here goes to the local fake forecast server on 127.0.0.1: no test reaches the network.

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { computeRunup, findNextTransition, summarizeRunup } from '../../server/utils/runup'
+import { computeRunup, findNextTransition, summarizeRunup } from '../../server/core/light/runup'
 import type { LightDayMs } from '../../shared/light'
 import { daysApart, nextDate, referenceDays, type ReferenceDay } from './support/outlook-reference'
 

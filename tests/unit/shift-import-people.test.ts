@@ -5,7 +5,7 @@ import { eq, sql } from 'drizzle-orm'
 import { afterEach, beforeEach, describe, expect, it } from 'vitest'
 import { applyMigrations, openDatabase, type AppDatabase } from '../../server/utils/db'
 import { auditLog, crewMembers, crews, people } from '../../server/db/schema'
-import { buildPeopleImportTemplate, importPeopleFromCsv, previewPeopleImport } from '../../server/utils/people-import'
+import { buildPeopleImportTemplate, importPeopleFromCsv, previewPeopleImport } from '../../server/services/people-import'
 
 // People and crews import against a fresh SQLite file with the migrations applied (invented people).
 const MIGRATIONS = resolve(import.meta.dirname, '../../drizzle')
@@ -68,8 +68,7 @@ describe('people import', () => {
     let data: any
     try {
       importPeopleFromCsv(db, actorId, file)
-    }
-    catch (error: any) {
+    } catch (error: any) {
       status = error.statusCode
       data = error.data
     }

@@ -5,8 +5,8 @@ import { eq, sql } from 'drizzle-orm'
 import { afterEach, beforeEach, describe, expect, it } from 'vitest'
 import { applyMigrations, openDatabase, type AppDatabase } from '../../server/utils/db'
 import { auditLog, people, shiftAssignees, shifts, sites } from '../../server/db/schema'
-import { buildShiftImportTemplate, importShiftsFromCsv, previewShiftImport } from '../../server/utils/shift-import'
-import { MAX_IMPORT_ROWS } from '../../server/utils/import-csv'
+import { buildShiftImportTemplate, importShiftsFromCsv, previewShiftImport } from '../../server/services/shift-import'
+import { MAX_IMPORT_ROWS } from '../../server/core/planning/csv'
 
 // Shift import against a fresh SQLite file with the migrations applied. Sites, people and shifts are
 // invented for the test; the light figures checked here are whole-shift cases whose answer follows
@@ -132,8 +132,7 @@ function expectNothingWritten(file: string) {
   let data: any
   try {
     importShiftsFromCsv(db, actorId, file)
-  }
-  catch (error: any) {
+  } catch (error: any) {
     status = error.statusCode
     data = error.data
   }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
-import { computeLightDaysMs } from '../../server/utils/light'
-import { findShiftConflicts, type ConflictContext, type NeighbourShift } from '../../server/utils/conflicts'
-import { findSlots, listValidSlotStarts, type SlotSearchInput } from '../../server/utils/slot-finder'
+import { computeLightDaysMs } from '../../server/core/light/index'
+import { findShiftConflicts, type ConflictContext, type NeighbourShift } from '../../server/core/planning/conflicts'
+import { findSlots, listValidSlotStarts, type SlotSearchInput } from '../../server/core/planning/slot-finder'
 import { nextDate, referenceMidnight, referenceMinAltitude } from './support/outlook-reference'
 
 // References:

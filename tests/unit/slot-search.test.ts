@@ -3,7 +3,7 @@ import { Body, Observer, SearchAltitude } from 'astronomy-engine'
 import { describe, expect, it } from 'vitest'
 import { applyMigrations, openDatabase } from '../../server/utils/db'
 import { crewMembers, crews, people, shiftAssignees, shifts, sites, unavailability } from '../../server/db/schema'
-import { searchSlots, SlotSearchBodySchema } from '../../server/utils/slot-search'
+import { searchSlots, SlotSearchBodySchema } from '../../server/services/slot-search'
 import { referenceMidnight } from './support/outlook-reference'
 
 // The slot search as the route runs it, on a fresh SQLite database with invented people and sites.

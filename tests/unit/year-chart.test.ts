@@ -1,7 +1,7 @@
 import { Body, Equator, Horizon, MakeTime, Observer, SearchAltitude, Seasons } from 'astronomy-engine'
 import { describe, expect, it } from 'vitest'
-import { computeLightDaysMs } from '../../server/utils/light'
-import { computeYearChart } from '../../server/utils/year-chart'
+import { computeLightDaysMs } from '../../server/core/light/index'
+import { computeYearChart } from '../../server/core/light/year-chart'
 import { toWallMinute } from '../../shared/outlook'
 import { daysApart, referenceMidnight } from './support/outlook-reference'
 

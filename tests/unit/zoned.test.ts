@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { formatZonedIso, localDateOf, localMidnightMs, resolveLocalOrInstant } from '../../server/utils/zoned'
+import { formatZonedIso, localDateOf, localMidnightMs, resolveLocalOrInstant } from '../../server/core/time/zoned'
 import { addDays } from '../../shared/format'
 
 // Offsets and transition instants from the IANA tz database (Europe/Oslo: CET/CEST, EU rule,

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { findPasswordProblem } from '../../core/accounts/password-policy'
 
 const BodySchema = z.object({
   token: z.string().trim().min(1, 'required').max(200),

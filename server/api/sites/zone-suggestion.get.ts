@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { LatitudeSchema, LongitudeSchema, TimeZoneSchema } from '../../utils/validation'
+import { describeZoneSolarGap, suggestTimeZone } from '../../core/time/zone-suggest'
 
 const QuerySchema = z.object({
   lat: LatitudeSchema,

@@ -1,3 +1,4 @@
+import { ImportBodySchema } from '../../../core/planning/csv'
 // All rows or none: a file with any bad row answers 400 with the preview and writes nothing.
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'coordinator')

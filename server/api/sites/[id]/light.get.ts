@@ -1,4 +1,5 @@
 import { IdParamsSchema } from '../../../utils/validation'
+import { computeLightDays } from '../../../core/light/index'
 
 export default defineEventHandler(async (event) => {
   await requireRole(event)

@@ -1,6 +1,8 @@
 import { z } from 'zod'
 import { DEFAULT_MIN_CIVIL_HOURS } from '../../../../shared/light'
 import { IdParamsSchema, LocalDateSchema, numberBetween } from '../../../utils/validation'
+import { computeRunup } from '../../../core/light/runup'
+import { localDateOf } from '../../../core/time/zoned'
 
 const QuerySchema = z.object({
   minCivilHours: numberBetween(0.25, 24).optional(),

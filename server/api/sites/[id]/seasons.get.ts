@@ -1,4 +1,5 @@
 import { IdParamsSchema } from '../../../utils/validation'
+import { computeSeasons } from '../../../core/light/seasons'
 
 export default defineEventHandler(async (event) => {
   await requireRole(event)

@@ -1,5 +1,7 @@
 import { z } from 'zod'
 import { IdParamsSchema } from '../../../utils/validation'
+import { computeYearChart } from '../../../core/light/year-chart'
+import { localDateOf } from '../../../core/time/zoned'
 
 const QuerySchema = z.object({
   // the light engine reads dates from 1901 to 2149

@@ -1,0 +1,100 @@
+import { createError } from 'h3'
+import { and, asc, eq, gt, lt, type SQL } from 'drizzle-orm'
+import { z } from 'zod'
+import { people, unavailability } from '../db/schema'
+import type { AppDatabase } from '../utils/db'
+import { recordAudit } from './audit'
+import { notFound } from '../utils/errors'
+import { InstantSchema, LocalDateSchema } from '../utils/validation'
+
+const DAY_MS = 86_400_000
+// a blocked span longer than this is almost certainly a typo in the year
+export const MAX_BLOCKED_SPAN_DAYS = 366
+
+// A blocked span's bounds: an ISO instant with offset, or a whole day YYYY-MM-DD read in UTC (a start
+// date is that day's 00:00 UTC; an end date is inclusive, so it runs to the next day's 00:00 UTC).
+const SpanBoundSchema = z.union([LocalDateSchema, InstantSchema], { error: 'expected YYYY-MM-DD (a whole day in UTC) or an ISO 8601 instant with an offset' })
+
+export const UnavailabilityBodySchema = z.object({
+  personId: z.number({ error: 'expected a person id' }).int().positive(),
+  start: SpanBoundSchema,
+  end: SpanBoundSchema,
+  reason: z.string().trim().max(200, 'at most 200 characters').default('')
+})
+
+export const UnavailabilityQuerySchema = z.object({
+  personId: z.coerce.number().int().positive().optional(),
+  from: SpanBoundSchema.optional(),
+  to: SpanBoundSchema.optional()
+})
+
+export interface BlockedSpanView {
+  id: number
+  personId: number
+  personName: string
+  start: string
+  end: string
+  reason: string
+}
+
+function isWholeDay(value: string) {
+  return value.length === 10
+}
+
+/** The instant a span bound names; a whole-day end covers that day. */
+export function readSpanBound(value: string, edge: 'start' | 'end'): number {
+  if (!isWholeDay(value)) return Date.parse(value)
+  const dayStart = Date.parse(`${value}T00:00:00Z`)
+  return edge === 'end' ? dayStart + DAY_MS : dayStart
+}
+
+function fieldError(field: string, message: string) {
+  return createError({ statusCode: 400, statusMessage: 'Bad Request', message: `Invalid ${field}: ${message}`, data: { issues: [{ field, message }] } })
+}
+
+/** Blocked spans overlapping [from, to) (both optional), for one person or everyone, by start. */
+export function listBlockedSpans(db: Pick<AppDatabase, 'select'>, query: z.infer<typeof UnavailabilityQuerySchema>): BlockedSpanView[] {
+  const conditions: SQL[] = []
+  if (query.personId) conditions.push(eq(unavailability.personId, query.personId))
+  if (query.from) conditions.push(gt(unavailability.endAt, new Date(readSpanBound(query.from, 'start'))))
+  if (query.to) conditions.push(lt(unavailability.startAt, new Date(readSpanBound(query.to, 'end'))))
+  return db.select({ id: unavailability.id, personId: unavailability.personId, personName: people.name, startAt: unavailability.startAt, endAt: unavailability.endAt, reason: unavailability.reason })
+    .from(unavailability).innerJoin(people, eq(people.id, unavailability.personId))
+    .where(conditions.length ? and(...conditions) : undefined)
+    .orderBy(asc(unavailability.startAt)).all()
+    .map(r => ({ id: r.id, personId: r.personId, personName: r.personName, start: r.startAt.toISOString(), end: r.endAt.toISOString(), reason: r.reason }))
+}
+
+/** Records a blocked span (leave, travel day) for a person, with an audit entry. */
+export function createBlockedSpan(db: AppDatabase, actorId: number, input: z.infer<typeof UnavailabilityBodySchema>): BlockedSpanView {
+  const startMs = readSpanBound(input.start, 'start')
+  const endMs = readSpanBound(input.end, 'end')
+  if (!(endMs > startMs)) throw fieldError('end', 'must be after start')
+  if (endMs - startMs > MAX_BLOCKED_SPAN_DAYS * DAY_MS) throw fieldError('end', `a blocked span may last at most ${MAX_BLOCKED_SPAN_DAYS} days`)
+  const id = db.transaction((tx) => {
+    const person = tx.select({ id: people.id }).from(people).where(eq(people.id, input.personId)).get()
+    if (!person) throw fieldError('personId', `no person with id ${input.personId}`)
+    const row = tx.insert(unavailability).values({ personId: input.personId, startAt: new Date(startMs), endAt: new Date(endMs), reason: input.reason }).returning().get()
+    recordAudit(tx, actorId, 'unavailability.create', 'unavailability', row.id, { personId: row.personId, start: new Date(startMs).toISOString(), end: new Date(endMs).toISOString() })
+    return row.id
+  })
+  return findBlockedSpan(db, id)!
+}
+
+/** One blocked span as the API shows it. */
+export function findBlockedSpan(db: Pick<AppDatabase, 'select'>, id: number): BlockedSpanView | undefined {
+  const row = db.select({ id: unavailability.id, personId: unavailability.personId, personName: people.name, startAt: unavailability.startAt, endAt: unavailability.endAt, reason: unavailability.reason })
+    .from(unavailability).innerJoin(people, eq(people.id, unavailability.personId)).where(eq(unavailability.id, id)).get()
+  return row && { id: row.id, personId: row.personId, personName: row.personName, start: row.startAt.toISOString(), end: row.endAt.toISOString(), reason: row.reason }
+}
+
+/** Deletes a blocked span, with an audit entry. */
+export function deleteBlockedSpan(db: AppDatabase, actorId: number, id: number) {
+  db.transaction((tx) => {
+    const before = findBlockedSpan(tx, id)
+    if (!before) throw notFound('Blocked span')
+    tx.delete(unavailability).where(eq(unavailability.id, id)).run()
+    recordAudit(tx, actorId, 'unavailability.delete', 'unavailability', id, { ...before })
+  })
+  return { id, deleted: true }
+}

@@ -1,0 +1,204 @@
+// Safety review decisions and the review queue, on the database. A decision, the shift's review
+// state and its audit entry are written in one transaction; the queue is shaped by review-queue.ts.
+import { and, asc, desc, eq, gt, isNull, sql } from 'drizzle-orm'
+import { z } from 'zod'
+import { people, reviews, shifts, sites, type Shift, type Site } from '../db/schema'
+import {
+  CHECK_IN_MINUTES, CHECK_IN_PREFIX, MAX_MITIGATION_TEXT, MAX_REVIEW_NOTE, MITIGATION_KEYS, OTHER_MITIGATION_PREFIX,
+  REVIEW_DECISIONS, REVIEW_QUEUE_STATES, type ReviewQueueState
+} from '../../shared/review'
+import type { AppDatabase } from '../utils/db'
+import { recordAudit } from './audit'
+import { conflict, notFound } from '../utils/errors'
+import { checkShiftLight } from '../core/light/check'
+import { compareReviewQueueItems, shapeReviewQueueItem, type ReviewQueueItem } from '../core/review/queue'
+import { loadAssignees, loadLatestReviews, loadShiftRowConflicts, toShiftView, type ShiftReviewSummary } from './shifts'
+import type { ShiftConflict } from '../core/planning/conflicts'
+import { describeWindowWeather, loadSiteForecast, loadSiteObservations, type ObservationRow, type SiteForecastState } from './site-weather'
+
+const HOUR_MS = 3_600_000
+
+// Normalises one mitigation: a fixed key, 'check-in-interval:<minutes>', or 'other:<free text>'.
+function normaliseMitigation(item: string, checkInMinutes: number | undefined): string | { message: string } {
+  const value = item.trim()
+  if (value === 'check-in-interval') {
+    if (checkInMinutes === undefined) return { message: 'a check-in interval needs its minutes (checkInMinutes, or write check-in-interval:30)' }
+    return `${CHECK_IN_PREFIX}${checkInMinutes}`
+  }
+  if (value.startsWith(CHECK_IN_PREFIX)) {
+    const minutes = Number(value.slice(CHECK_IN_PREFIX.length))
+    if (!Number.isInteger(minutes) || minutes < CHECK_IN_MINUTES.min || minutes > CHECK_IN_MINUTES.max) {
+      return { message: `the check-in interval must be a whole number of minutes from ${CHECK_IN_MINUTES.min} to ${CHECK_IN_MINUTES.max}` }
+    }
+    return `${CHECK_IN_PREFIX}${minutes}`
+  }
+  if (value.startsWith(OTHER_MITIGATION_PREFIX)) {
+    const text = value.slice(OTHER_MITIGATION_PREFIX.length).trim()
+    if (!text) return { message: 'describe the other mitigation after "other:"' }
+    if (text.length > MAX_MITIGATION_TEXT) return { message: `an other mitigation may be at most ${MAX_MITIGATION_TEXT} characters` }
+    return `${OTHER_MITIGATION_PREFIX}${text}`
+  }
+  if ((MITIGATION_KEYS as readonly string[]).includes(value)) return value
+  // any other text is a mitigation in the reviewer's own words, kept verbatim (DESIGN.md: string[])
+  if (!value) return { message: 'a mitigation may not be empty' }
+  if (value.length > MAX_MITIGATION_TEXT) return { message: `a mitigation may be at most ${MAX_MITIGATION_TEXT} characters` }
+  return value
+}
+
+/** Validates POST /api/shifts/:id/review; mitigations come back normalised and without duplicates. */
+export const ReviewBodySchema = z.object({
+  decision: z.enum(REVIEW_DECISIONS, { error: 'decision must be approved, rejected or changes-requested' }),
+  mitigations: z.array(z.string({ error: 'each mitigation must be text' }), { error: 'expected a list of mitigations' }).max(20, 'at most 20 mitigations').default([]),
+  checkInMinutes: z.number({ error: 'checkInMinutes must be a number' }).int('checkInMinutes must be whole minutes')
+    .min(CHECK_IN_MINUTES.min, `must be at least ${CHECK_IN_MINUTES.min} minutes`).max(CHECK_IN_MINUTES.max, `must be at most ${CHECK_IN_MINUTES.max} minutes`).optional(),
+  note: z.string({ error: 'note must be text' }).trim().max(MAX_REVIEW_NOTE, `at most ${MAX_REVIEW_NOTE} characters`).default(''),
+  version: z.number({ error: 'expected the shift version you reviewed' }).int().positive().optional()
+}).transform((body, ctx) => {
+  const mitigations: string[] = []
+  body.mitigations.forEach((item, i) => {
+    const normal = normaliseMitigation(item, body.checkInMinutes)
+    if (typeof normal !== 'string') ctx.addIssue({ code: 'custom', path: ['mitigations', i], message: normal.message })
+    else if (!mitigations.includes(normal)) mitigations.push(normal)
+  })
+  // an approval without mitigations is allowed by the API (the contract takes any list); the
+  // decision form asks for at least one
+  if (body.decision === 'rejected' && !body.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'a rejection needs a reason' })
+  if (body.decision === 'changes-requested' && !body.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'say which changes are needed' })
+  return { decision: body.decision, mitigations, note: body.note, version: body.version }
+})
+export type ReviewInput = z.output<typeof ReviewBodySchema>
+
+/**
+ * Records a decision on a flagged shift: the review row (on the shift's current version), the shift's
+ * review state and the audit entry, in one transaction. A shift that is not flagged needs no review:
+ * that is a 409 (the request is well formed, the shift's state does not allow it, and may change).
+ */
+export function recordReviewDecision(db: AppDatabase, actor: { id: number }, shiftId: number, input: ReviewInput) {
+  return db.transaction((tx) => {
+    const shift = tx.select().from(shifts).where(eq(shifts.id, shiftId)).get()
+    if (!shift) throw notFound('Shift')
+    if (shift.cancelledAt) throw conflict('This shift is cancelled: there is nothing to review.', { reviewState: shift.reviewState })
+    if (input.version !== undefined && input.version !== shift.version) {
+      throw conflict('This shift changed since you opened it. Reload it and review what is planned now.', { currentVersion: shift.version })
+    }
+    if (!shift.flagged || shift.reviewState === 'not-needed') {
+      throw conflict('This shift is not flagged: no minute of it is below its light requirement, so it needs no review.', { reviewState: shift.reviewState })
+    }
+    const row = tx.insert(reviews).values({ shiftId, reviewerId: actor.id, decision: input.decision, mitigations: input.mitigations, note: input.note, shiftVersion: shift.version }).returning().get()
+    tx.update(shifts).set({ reviewState: input.decision }).where(eq(shifts.id, shiftId)).run()
+    recordAudit(tx, actor.id, 'shift.review', 'shift', shiftId, {
+      reviewId: row.id, decision: input.decision, mitigations: input.mitigations, note: input.note,
+      shiftVersion: shift.version, previousState: shift.reviewState
+    })
+    return { reviewId: row.id, shiftId, reviewState: input.decision, shiftVersion: shift.version }
+  })
+}
+
+export interface ReviewHistoryEntry {
+  id: number
+  decision: (typeof REVIEW_DECISIONS)[number]
+  mitigations: string[]
+  note: string
+  reviewerId: number
+  reviewerName: string
+  at: string
+  shiftVersion: number
+  /** True while the shift is still the version the decision was made on. */
+  current: boolean
+}
+
+/** Every decision on a shift, newest first. */
+export function listShiftReviews(db: Pick<AppDatabase, 'select'>, shift: Pick<Shift, 'id' | 'version'>): ReviewHistoryEntry[] {
+  return db.select({ id: reviews.id, decision: reviews.decision, mitigations: reviews.mitigations, note: reviews.note, reviewerId: reviews.reviewerId, reviewerName: people.name, at: reviews.createdAt, shiftVersion: reviews.shiftVersion })
+    .from(reviews).innerJoin(people, eq(people.id, reviews.reviewerId))
+    .where(eq(reviews.shiftId, shift.id)).orderBy(desc(reviews.id)).all()
+    .map(r => ({ ...r, at: r.at.toISOString(), current: r.shiftVersion === shift.version }))
+}
+
+export const ReviewQueueQuerySchema = z.object({
+  state: z.enum(REVIEW_QUEUE_STATES, { error: `state must be one of ${REVIEW_QUEUE_STATES.join(', ')}` }).default('pending'),
+  siteId: z.coerce.number({ error: 'siteId must be a site id' }).int('siteId must be a site id').positive('siteId must be a site id').optional(),
+  // 'upcoming' leaves out shifts that have already ended; 'all' keeps them
+  scope: z.enum(['upcoming', 'all'], { error: 'scope must be upcoming or all' }).default('upcoming'),
+  limit: z.coerce.number({ error: 'limit must be a number' }).int('limit must be a whole number').min(1, 'limit must be from 1 to 200').max(200, 'limit must be from 1 to 200').default(50)
+})
+export type ReviewQueueQuery = z.output<typeof ReviewQueueQuerySchema>
+
+// Loads what shaping needs for a batch of shifts: sites, people, latest decisions, weather per site.
+function shapeShiftRows(db: AppDatabase, rows: Shift[], nowMs: number): ReviewQueueItem[] {
+  if (!rows.length) return []
+  const siteById = new Map(db.select().from(sites).all().map(s => [s.id, s]))
+  const assignees = loadAssignees(db, rows.map(r => r.id))
+  const latest = loadLatestReviews(db, rows)
+  const conflicts = loadShiftRowConflicts(db, rows, assignees)
+  const weatherBySite = new Map<number, { forecast: SiteForecastState, readings: ObservationRow[] }>()
+  for (const siteId of new Set(rows.map(r => r.siteId))) {
+    const own = rows.filter(r => r.siteId === siteId)
+    const from = Math.min(...own.map(r => r.startAt.getTime())) - 3 * HOUR_MS
+    const to = Math.max(...own.map(r => r.endAt.getTime()))
+    weatherBySite.set(siteId, { forecast: loadSiteForecast(db, siteId, nowMs), readings: loadSiteObservations(db, siteId, from, to) })
+  }
+  return rows.map((row) => {
+    const site = siteById.get(row.siteId)!
+    return shapeOneRow(row, site, { assigned: assignees.get(row.id) ?? [], review: latest.get(row.id) ?? null, conflicts: conflicts.get(row.id) ?? [] }, weatherBySite.get(row.siteId)!)
+  })
+}
+
+interface RowExtras { assigned: { id: number, name: string }[], review: ShiftReviewSummary | null, conflicts: ShiftConflict[] }
+
+function shapeOneRow(row: Shift, site: Site, extras: RowExtras, weather: { forecast: SiteForecastState, readings: ObservationRow[] }) {
+  const view = toShiftView(row, site, extras.assigned, extras.review, extras.conflicts)
+  const startMs = row.startAt.getTime()
+  const endMs = row.endAt.getTime()
+  const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: row.light })
+  const windowWeather = describeWindowWeather(weather.forecast, weather.readings, { startMs, endMs, bands: check.bands, timezone: site.timezone })
+  return shapeReviewQueueItem(view, check, windowWeather)
+}
+
+function queueConditions(query: Pick<ReviewQueueQuery, 'siteId' | 'scope'>, nowMs: number) {
+  const conditions = [isNull(shifts.cancelledAt), eq(shifts.flagged, true)]
+  if (query.siteId) conditions.push(eq(shifts.siteId, query.siteId))
+  if (query.scope === 'upcoming') conditions.push(gt(shifts.endAt, new Date(nowMs)))
+  return conditions
+}
+
+/** Counts per review state (same site and scope), and how many waiting shifts changed after a decision. */
+export function countReviewStates(db: AppDatabase, query: Pick<ReviewQueueQuery, 'siteId' | 'scope'>, nowMs: number) {
+  const grouped = db.select({ state: shifts.reviewState, n: sql<number>`count(*)` }).from(shifts)
+    .where(and(...queueConditions(query, nowMs))).groupBy(shifts.reviewState).all()
+  const counts = Object.fromEntries(REVIEW_QUEUE_STATES.map(s => [s, 0])) as Record<ReviewQueueState, number> & { changedSinceReview: number }
+  for (const g of grouped) if (g.state !== 'not-needed') counts[g.state] = g.n
+  const pending = db.select({ id: shifts.id, reviewState: shifts.reviewState }).from(shifts)
+    .where(and(...queueConditions(query, nowMs), eq(shifts.reviewState, 'pending'))).all()
+  counts.changedSinceReview = [...loadLatestReviews(db, pending).values()].filter(r => !r.current).length
+  return counts
+}
+
+/** The review queue: flagged shifts in one review state, soonest first, shaped for the reviewer. */
+export function buildReviewQueue(db: AppDatabase, query: ReviewQueueQuery, nowMs = Date.now()) {
+  const rows = db.select().from(shifts)
+    .where(and(...queueConditions(query, nowMs), eq(shifts.reviewState, query.state)))
+    .orderBy(asc(shifts.startAt), asc(shifts.id)).all()
+  const items = shapeShiftRows(db, rows.slice(0, query.limit), nowMs).sort(compareReviewQueueItems)
+  return {
+    state: query.state,
+    scope: query.scope,
+    generatedAt: new Date(nowMs).toISOString(),
+    total: rows.length,
+    counts: countReviewStates(db, query, nowMs),
+    items
+  }
+}
+
+/** One shift as the reviewer sees it, with every decision made on it; reviewable says whether a decision is possible now. */
+export function buildReviewItem(db: AppDatabase, shiftId: number, nowMs = Date.now()) {
+  const row = db.select().from(shifts).where(eq(shifts.id, shiftId)).get()
+  if (!row) throw notFound('Shift')
+  const [item] = shapeShiftRows(db, [row], nowMs)
+  const reason = row.cancelledAt
+    ? 'This shift is cancelled.'
+    : !row.flagged
+        ? 'This shift is not flagged: no minute of it is below its light requirement, so it needs no review.'
+        : null
+  return { ...item!, reviewable: reason === null, notReviewableReason: reason, history: listShiftReviews(db, row) }
+}

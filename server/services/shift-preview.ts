@@ -1,0 +1,28 @@
+import { createError } from 'h3'
+import { eq } from 'drizzle-orm'
+import { shifts } from '../db/schema'
+import type { AppDatabase } from '../utils/db'
+import { checkShiftLight } from '../core/light/check'
+import { computeCandidateConflicts } from './conflict-context'
+import { requireAssignees, requireSiteForShift, resolveShiftTimes, type ShiftInput } from './shifts'
+import { formatZonedIso } from '../core/time/zoned'
+
+/**
+ * What POST /api/shifts would store for this body (light check, the light bands over the shift, the
+ * work-rule warnings), without writing. The same validation answers the same 400s as the write.
+ */
+export function previewShiftCheck(db: AppDatabase, body: ShiftInput & { shiftId?: number }) {
+  const site = requireSiteForShift(db, body.siteId)
+  const { startMs, endMs, notes } = resolveShiftTimes(body.start, body.end, site.timezone)
+  const personIds = requireAssignees(db, body.assigneeIds)
+  if (body.shiftId !== undefined && !db.select({ id: shifts.id }).from(shifts).where(eq(shifts.id, body.shiftId)).get()) {
+    throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: `Invalid shiftId: no shift with id ${body.shiftId}`, data: { issues: [{ field: 'shiftId', message: 'no such shift' }] } })
+  }
+  const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: body.light })
+  return {
+    lightCheck: { requirement: check.requirement, minutesBelow: check.minutesBelow, flagged: check.flagged },
+    bands: check.bands.map(b => ({ kind: b.kind, start: formatZonedIso(b.startMs, site.timezone), end: formatZonedIso(b.endMs, site.timezone) })),
+    conflicts: computeCandidateConflicts(db, { shiftId: body.shiftId, startMs, endMs, personIds }),
+    timeNotes: notes
+  }
+}

@@ -1,0 +1,54 @@
+// The shift as every route replies with it (GET/POST/PATCH /api/shifts…), used by server and client
+// alike: one definition. Pure types: no Vue or Nitro.
+import type { LightRequirement } from '../light'
+
+export type ReviewState = 'not-needed' | 'pending' | 'approved' | 'rejected' | 'changes-requested'
+export type ReviewDecision = Exclude<ReviewState, 'not-needed' | 'pending'>
+export type ShiftConflictKind = 'overlap' | 'rest' | 'long' | 'unavailable'
+
+/** A work-rule warning: overlap, too little rest, too long, or an assignee away. */
+export interface ShiftConflict {
+  kind: ShiftConflictKind
+  // null for a warning about the shift itself ('long')
+  personId: number | null
+  personName: string | null
+  otherShiftId: number | null
+  message: string
+}
+
+/** The latest safety decision on a shift. */
+export interface ShiftReview {
+  decision: ReviewDecision
+  mitigations: string[]
+  note: string
+  reviewerName: string
+  at: string
+  // false when the shift changed after this decision
+  current: boolean
+}
+
+/** One shift as the API returns it. */
+export interface ShiftReply {
+  id: number
+  siteId: number
+  siteName: string
+  timezone: string
+  title: string
+  start: string
+  end: string
+  light: LightRequirement
+  notes: string
+  assigneeIds: number[]
+  assignees: { id: number, name: string }[]
+  lightCheck: { requirement: LightRequirement, minutesBelow: number, flagged: boolean }
+  reviewState: ReviewState
+  // the latest safety decision, if any (it may predate a change that reopened the shift)
+  review: ShiftReview | null
+  conflictOverride: string | null
+  // work-rule warnings (overlap, rest, long, unavailable) against the people's other shifts
+  conflicts: ShiftConflict[]
+  version: number
+  cancelled: boolean
+  // set on create/patch replies when a wall-clock time fell in a clock-change gap or overlap
+  timeNotes?: string[]
+}
