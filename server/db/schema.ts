@@ -18,6 +18,8 @@ export const people = sqliteTable('people', {
   remindersEnabled: integer('reminders_enabled', { mode: 'boolean' }).notNull().default(true),
   // 'site' shows times in each site's zone; any IANA name shows them in that zone
   displayZone: text('display_zone').notNull().default('site'),
+  // cold and wind figures on screens and in mail: °C, km/h, m or °F, mph, ft
+  units: text('units', { enum: ['metric', 'imperial'] }).notNull().default('metric'),
   feedTokenHash: text('feed_token_hash'),
   feedIncludeSun: integer('feed_include_sun', { mode: 'boolean' }).notNull().default(false),
   createdAt,
@@ -34,6 +36,8 @@ export const sites = sqliteTable('sites', {
   defaultLight: text('default_light', { enum: LIGHT_REQUIREMENTS }).notNull().default('daylight'),
   // local hour (0–23) at which the evening-before reminders for this site go out
   reminderHour: integer('reminder_hour').notNull().default(18),
+  // minutes of travel each way, the default for new shifts at this site
+  travelMinutes: integer('travel_minutes').notNull().default(0),
   notes: text('notes').notNull().default(''),
   archivedAt: integer('archived_at', { mode: 'timestamp_ms' }),
   createdAt,
@@ -68,6 +72,8 @@ export const shifts = sqliteTable('shifts', {
   endAt: integer('end_at', { mode: 'timestamp_ms' }).notNull(),
   light: text('light', { enum: LIGHT_REQUIREMENTS }).notNull(),
   notes: text('notes').notNull().default(''),
+  // minutes of travel each way: the light check covers start − travel to end + travel
+  travelMinutes: integer('travel_minutes').notNull().default(0),
   minutesBelow: integer('minutes_below').notNull().default(0),
   flagged: integer('flagged', { mode: 'boolean' }).notNull().default(false),
   reviewState: text('review_state', { enum: REVIEW_STATES }).notNull().default('not-needed'),
@@ -130,6 +136,7 @@ export const observations = sqliteTable('observations', {
   at: integer('at', { mode: 'timestamp_ms' }).notNull(),
   temperatureC: real('temperature_c').notNull(),
   windKmh: real('wind_kmh').notNull(),
+  visibilityM: real('visibility_m'),
   source: text('source', { enum: ['manual', 'csv'] }).notNull(),
   createdBy: integer('created_by').references(() => people.id),
   createdAt
@@ -163,6 +170,26 @@ export const invitations = sqliteTable('invitations', {
   createdBy: integer('created_by').references(() => people.id),
   createdAt
 }, t => [uniqueIndex('invitations_token_unique').on(t.tokenHash)])
+
+// A party's time in the field: out (departedAt) until back (returnedAt), one row per departure.
+export const fieldOutings = sqliteTable('field_outings', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  shiftId: integer('shift_id').notNull().references(() => shifts.id, { onDelete: 'cascade' }),
+  departedAt: integer('departed_at', { mode: 'timestamp_ms' }).notNull(),
+  expectedBackAt: integer('expected_back_at', { mode: 'timestamp_ms' }).notNull(),
+  departedBy: integer('departed_by').references(() => people.id),
+  returnedAt: integer('returned_at', { mode: 'timestamp_ms' }),
+  returnedBy: integer('returned_by').references(() => people.id),
+  createdAt
+}, t => [index('field_outings_shift_idx').on(t.shiftId), index('field_outings_open_idx').on(t.returnedAt, t.expectedBackAt)])
+
+export const fieldCheckIns = sqliteTable('field_check_ins', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  outingId: integer('outing_id').notNull().references(() => fieldOutings.id, { onDelete: 'cascade' }),
+  at: integer('at', { mode: 'timestamp_ms' }).notNull(),
+  personId: integer('person_id').references(() => people.id),
+  note: text('note').notNull().default('')
+}, t => [index('field_check_ins_outing_idx').on(t.outingId, t.at)])
 
 export const settings = sqliteTable('settings', {
   key: text('key').primaryKey(),
