@@ -4,6 +4,7 @@
 import { z } from 'zod'
 import { classifyFrostbiteRisk, computeWindChill } from '../core/cold/index'
 import type { FrostbiteRisk } from '../core/cold/index'
+import { nowDate } from '../core/time/clock'
 
 const HOUR_MS = 3_600_000
 const DEFAULT_FORECAST_TIMEOUT_MS = 5000
@@ -176,7 +177,7 @@ export async function fetchHourlyForecast(request: ForecastRequest): Promise<For
     return {
       ok: true,
       source: new URL(request.baseUrl).host,
-      fetchedAt: new Date().toISOString(),
+      fetchedAt: nowDate().toISOString(),
       latitude: parsed.reply.latitude,
       longitude: parsed.reply.longitude,
       hours

@@ -8,5 +8,5 @@ const QuerySchema = z.object({ minCivilHours: numberBetween(0.25, 24).optional()
 export default defineEventHandler(async (event) => {
   await requireRole(event)
   const q = readQueryAs(event, QuerySchema)
-  return loadLightBoard(useDB(), Date.now(), q.minCivilHours ?? DEFAULT_MIN_CIVIL_HOURS)
+  return loadLightBoard(useDB(), nowMs(), q.minCivilHours ?? DEFAULT_MIN_CIVIL_HOURS)
 })

@@ -4,6 +4,7 @@ import { checkShiftLight } from '../core/light/check'
 import { localDateOf, resolveLocalOrInstant } from '../core/time/zoned'
 import { addDays } from '../../shared/format'
 import { crewMembers, crews, people, reviews, shiftAssignees, shifts, sites, unavailability, type NewShift } from './schema'
+import { nowMs } from '../core/time/clock'
 
 // The demo scenario: an invented operator, Northwake Field Services, with invented sites at real
 // coordinates and invented people on the .test domain. Demo only: no test relies on these numbers.
@@ -83,7 +84,7 @@ export function isDatabaseEmpty(db: AppDatabase) {
 }
 
 /** Seeds the demo scenario around `now` in one transaction; returns false when there was data already. */
-export function seedDemoScenario(db: AppDatabase, passwordHash: string, now = Date.now()): boolean {
+export function seedDemoScenario(db: AppDatabase, passwordHash: string, now = nowMs()): boolean {
   if (!isDatabaseEmpty(db)) return false
   db.transaction((tx) => {
     const personRows = tx.insert(people).values(PEOPLE.map(p => ({ ...p, passwordHash }))).returning().all()

@@ -4,7 +4,7 @@ export default defineNitroPlugin(() => {
     console.warn('[gloamline] database opened read-only (DATABASE_READ_ONLY=1): reads are served, every write answers 503')
     return
   }
-  const started = Date.now()
+  const started = performance.now()
   applyMigrations(useDB())
-  console.info(`[gloamline] database ready (${process.env.DATABASE_PATH || '.data/gloamline.sqlite'}, migrations in ${Date.now() - started} ms)`)
+  console.info(`[gloamline] database ready (${process.env.DATABASE_PATH || '.data/gloamline.sqlite'}, migrations in ${Math.round(performance.now() - started)} ms)`)
 })

@@ -9,8 +9,8 @@ export default defineNitroPlugin(() => {
   const db = useDB()
   if (!isDatabaseEmpty(db)) return
   seedReady.promise = (async () => {
-    const started = Date.now()
+    const started = performance.now()
     seedDemoScenario(db, await hashPassword(DEMO_PASSWORD))
-    console.info(`[gloamline] demo scenario seeded in ${Date.now() - started} ms`)
+    console.info(`[gloamline] demo scenario seeded in ${Math.round(performance.now() - started)} ms`)
   })()
 })

@@ -14,7 +14,7 @@ export default defineNitroPlugin((nitroApp) => {
   nitroApp.hooks.hook('afterResponse', (event) => {
     const started = event.context.startedAt as number | undefined
     const line = {
-      at: new Date().toISOString(),
+      at: nowDate().toISOString(),
       method: event.method,
       path: maskLoggedPath(event.path),
       status: event.node.res.statusCode,

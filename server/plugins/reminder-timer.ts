@@ -18,8 +18,8 @@ export default defineNitroPlugin((nitroApp) => {
     try {
       await seedReady.promise
       const db = useDB()
-      queueDueReminders(db, Date.now(), resolvePublicBaseUrl())
-      await deliverDueOutboxMessages(db, Date.now())
+      queueDueReminders(db, nowMs(), resolvePublicBaseUrl())
+      await deliverDueOutboxMessages(db, nowMs())
     } catch (err) {
       console.error('[gloamline] reminder timer tick failed', err)
     } finally {

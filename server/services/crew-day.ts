@@ -14,6 +14,7 @@ import { loadAssignees, loadLatestReviews, type ShiftReviewSummary } from './shi
 import { describeWindowWeather, loadSiteForecast, loadSiteObservations, type SiteForecastState } from './site-weather'
 import { sumBandMinutes, type ColdWindowFigures, type WindowWeather } from '../core/review/queue'
 import { formatZonedIso, localMidnightMs } from '../core/time/zoned'
+import { nowDate, nowMs as clockNowMs } from '../core/time/clock'
 
 const DAY_MS = 86_400_000
 // the crew home lists the sites where the person works within this horizon
@@ -419,7 +420,7 @@ export interface CrewToday {
 }
 
 /** Today and tomorrow at each site where the person works in the next 7 days (or every site when none). */
-export function buildCrewToday(db: AppDatabase, personId: number, nowMs = Date.now()): CrewToday {
+export function buildCrewToday(db: AppDatabase, personId: number, nowMs = clockNowMs()): CrewToday {
   const person = db.select().from(people).where(eq(people.id, personId)).get()
   if (!person) throw new RangeError(`no person ${personId}`)
   const upcoming = loadPersonShifts(db, personId, nowMs, nowMs + CREW_HOME_HORIZON_MS)
@@ -464,6 +465,6 @@ export function readPersonPreferences(db: AppDatabase, personId: number): Person
 
 /** Changes the given preferences and returns them all. */
 export function updatePersonPreferences(db: AppDatabase, personId: number, changes: Partial<PersonPreferences>): PersonPreferences {
-  if (Object.keys(changes).length) db.update(people).set({ ...changes, updatedAt: new Date() }).where(eq(people.id, personId)).run()
+  if (Object.keys(changes).length) db.update(people).set({ ...changes, updatedAt: nowDate() }).where(eq(people.id, personId)).run()
   return readPersonPreferences(db, personId)
 }

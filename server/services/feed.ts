@@ -20,6 +20,7 @@ import type { AppDatabase } from '../utils/db'
 import { describeCrewShift, loadPersonShifts } from './crew-day'
 import { computeLightDaysMs } from '../core/light/index'
 import { loadAssignees, loadLatestReviews } from './shifts'
+import { nowDate, nowMs as clockNowMs } from '../core/time/clock'
 
 const DAY_MS = 86_400_000
 // shifts from this far back stay in the feed, so a calendar still shows last month's work
@@ -52,9 +53,9 @@ function storeFeedSalt(db: AppDatabase, personId: number, secret: string): strin
   const salt = randomBytes(16).toString('hex')
   const token = deriveFeedToken(secret, personId, salt)
   db.transaction((tx) => {
-    tx.insert(settings).values({ key: saltKey(personId), value: { salt, createdAt: new Date().toISOString() } })
-      .onConflictDoUpdate({ target: settings.key, set: { value: { salt, createdAt: new Date().toISOString() } } }).run()
-    tx.update(people).set({ feedTokenHash: hashFeedToken(token), updatedAt: new Date() }).where(eq(people.id, personId)).run()
+    tx.insert(settings).values({ key: saltKey(personId), value: { salt, createdAt: nowDate().toISOString() } })
+      .onConflictDoUpdate({ target: settings.key, set: { value: { salt, createdAt: nowDate().toISOString() } } }).run()
+    tx.update(people).set({ feedTokenHash: hashFeedToken(token), updatedAt: nowDate() }).where(eq(people.id, personId)).run()
   })
   return token
 }
@@ -67,7 +68,7 @@ export function issueFeedToken(db: AppDatabase, personId: number, secret: string
   const hash = hashFeedToken(token)
   // the secret changed since the hash was stored: the stored hash follows the token people are shown
   const person = db.select({ hash: people.feedTokenHash }).from(people).where(eq(people.id, personId)).get()
-  if (person && person.hash !== hash) db.update(people).set({ feedTokenHash: hash, updatedAt: new Date() }).where(eq(people.id, personId)).run()
+  if (person && person.hash !== hash) db.update(people).set({ feedTokenHash: hash, updatedAt: nowDate() }).where(eq(people.id, personId)).run()
   return token
 }
 
@@ -157,7 +158,7 @@ function addSunEvents(calendar: ReturnType<typeof ical>, site: Site, nowMs: numb
 
 /** The person's feed as iCalendar text: shifts in UTC, and sunrise/sunset for 14 days when they asked for it. */
 export function buildPersonFeed(db: AppDatabase, person: Person, options: { nowMs?: number, homeUrl?: string | null } = {}): string {
-  const nowMs = options.nowMs ?? Date.now()
+  const nowMs = options.nowMs ?? clockNowMs()
   const calendar = ical({
     name: `Gloamline shifts: ${person.name}`,
     prodId: { company: 'Gloamline', product: 'Shift feed', language: 'EN' },

@@ -11,6 +11,7 @@ import { renderInvitationMail } from '../../emails/invitation'
 import type { AppDatabase } from '../utils/db'
 import { recordAudit } from './audit'
 import { enqueueOutboxMessage } from './outbox'
+import { nowMs as clockNowMs } from '../core/time/clock'
 
 export const INVITATION_TTL_MS = 72 * 3_600_000
 export const INVITATION_KIND = 'invitation'
@@ -37,7 +38,7 @@ export interface InvitationInput { name: string, email: string, role: Person['ro
  * Earlier unused links of that person stop working. Someone already active is refused with 409.
  */
 export function createInvitation(db: AppDatabase, actor: { id: number, name: string }, input: InvitationInput, options: { baseUrl: string, nowMs?: number }) {
-  const nowMs = options.nowMs ?? Date.now()
+  const nowMs = options.nowMs ?? clockNowMs()
   const token = randomBytes(32).toString('base64url')
   const expiresAt = new Date(nowMs + INVITATION_TTL_MS)
   return db.transaction((tx) => {
@@ -57,7 +58,7 @@ export function createInvitation(db: AppDatabase, actor: { id: number, name: str
 }
 
 /** Finds the invitation of a token and says plainly why it cannot be used (unknown, used, expired, already active). */
-export function requireUsableInvitation(db: Pick<AppDatabase, 'select'>, token: string, nowMs = Date.now()) {
+export function requireUsableInvitation(db: Pick<AppDatabase, 'select'>, token: string, nowMs = clockNowMs()) {
   const found = db.select().from(invitations).where(eq(invitations.tokenHash, hashInvitationToken(token))).get()
   if (!found) throw inputError(400, 'token', 'not a valid invitation link', 'This invitation link is not valid. Check that you copied the whole link, or ask your coordinator for a new one.')
   if (found.usedAt) throw inputError(410, 'token', 'already used', 'This invitation link has already been used. Sign in with the password you chose, or ask your coordinator for a new link.')
@@ -68,7 +69,7 @@ export function requireUsableInvitation(db: Pick<AppDatabase, 'select'>, token: 
 }
 
 /** Spends the token: sets the password, activates the person; a second use of the same token fails. */
-export function acceptInvitation(db: AppDatabase, token: string, passwordHash: string, nowMs = Date.now()): Person {
+export function acceptInvitation(db: AppDatabase, token: string, passwordHash: string, nowMs = clockNowMs()): Person {
   return db.transaction((tx) => {
     const { invitation, person } = requireUsableInvitation(tx, token, nowMs)
     // the guard on usedAt makes the token single-use even if two requests race
@@ -81,7 +82,7 @@ export function acceptInvitation(db: AppDatabase, token: string, passwordHash: s
 }
 
 /** Invitations, newest first, with their state (never the token). */
-export function listInvitations(db: AppDatabase, nowMs = Date.now()) {
+export function listInvitations(db: AppDatabase, nowMs = clockNowMs()) {
   return db.select({ id: invitations.id, personId: invitations.personId, name: people.name, email: people.email, role: people.role, expiresAt: invitations.expiresAt, usedAt: invitations.usedAt, createdAt: invitations.createdAt })
     .from(invitations).innerJoin(people, eq(people.id, invitations.personId)).orderBy(desc(invitations.id)).limit(200).all()
     .map(r => ({

@@ -14,6 +14,7 @@ import { deliverOutboxMessage, enqueueOutboxMessage, type DeliveryOutcome } from
 import type { MailSender } from '../adapters/mail'
 import { loadAssignees, loadLatestReviews } from './shifts'
 import type { ShiftChangeNotice } from './shift-notices'
+import { nowMs as clockNowMs } from '../core/time/clock'
 
 const NO_FORECAST = { state: 'none' as const, latest: null, lastAttempt: null }
 
@@ -66,7 +67,7 @@ function loadActivePeople(db: AppDatabase, ids: number[]): Person[] {
 /** Queues the mail a committed shift change calls for; returns the outbox ids (new or already there). */
 export function queueShiftChangeNotices(db: AppDatabase, notice: ShiftChangeNotice, options: { baseUrl: string | null, nowMs?: number }): number[] {
   const row = db.select().from(shifts).where(eq(shifts.id, notice.shiftId)).get()
-  if (!row || row.endAt.getTime() <= (options.nowMs ?? Date.now())) return []
+  if (!row || row.endAt.getTime() <= (options.nowMs ?? clockNowMs())) return []
   const site = db.select().from(sites).where(eq(sites.id, row.siteId)).get()!
   const assignees = loadAssignees(db, [row.id]).get(row.id) ?? []
   const actor = db.select({ name: people.name }).from(people).where(eq(people.id, notice.actorId)).get()

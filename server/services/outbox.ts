@@ -7,6 +7,7 @@ import { and, desc, eq, inArray, isNotNull, isNull, lte, or, sql, type SQL } fro
 import { messages, people, type Message } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
 import { sendMailMessage, type MailContent, type MailSender } from '../adapters/mail'
+import { nowDate, nowMs as clockNowMs } from '../core/time/clock'
 
 export const OUTBOX_RETRY_BASE_MS = 60_000
 export const OUTBOX_RETRY_MAX_MS = 60 * 60_000
@@ -90,7 +91,7 @@ function claimMessage(db: AppDatabase, id: number, nowMs: number, force: boolean
  * A message someone else is sending, or one already sent, is skipped.
  */
 export async function deliverOutboxMessage(db: AppDatabase, id: number, options: { nowMs?: number, force?: boolean, send?: MailSender } = {}): Promise<DeliveryOutcome> {
-  const nowMs = options.nowMs ?? Date.now()
+  const nowMs = options.nowMs ?? clockNowMs()
   // `force` skips the back-off but never a send in progress in this process
   if (SENDING.has(id)) return { id, status: 'skipped' }
   const row = claimMessage(db, id, nowMs, options.force ?? false)
@@ -99,7 +100,7 @@ export async function deliverOutboxMessage(db: AppDatabase, id: number, options:
   SENDING.add(id)
   try {
     await send({ to: row.toEmail, subject: row.subject, html: row.html, text: row.text })
-    db.update(messages).set({ status: 'sent', attempts: row.attempts + 1, sentAt: new Date(), lastError: null, nextAttemptAt: null })
+    db.update(messages).set({ status: 'sent', attempts: row.attempts + 1, sentAt: nowDate(), lastError: null, nextAttemptAt: null })
       .where(eq(messages.id, id)).run()
     return { id, status: 'sent' }
   } catch (err) {
@@ -125,7 +126,7 @@ export function findDueOutboxIds(db: AppDatabase, nowMs: number, limit = 200): n
 }
 
 /** Sends, one after another, every message that is due; returns what happened to each. */
-export async function deliverDueOutboxMessages(db: AppDatabase, nowMs = Date.now(), send?: MailSender): Promise<DeliveryOutcome[]> {
+export async function deliverDueOutboxMessages(db: AppDatabase, nowMs = clockNowMs(), send?: MailSender): Promise<DeliveryOutcome[]> {
   const outcomes: DeliveryOutcome[] = []
   for (const id of findDueOutboxIds(db, nowMs)) outcomes.push(await deliverOutboxMessage(db, id, { nowMs, send }))
   return outcomes

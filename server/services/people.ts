@@ -1,6 +1,7 @@
 import { useDB } from '../utils/db'
 import { and, asc, eq, gte, sql } from 'drizzle-orm'
 import { loginAttempts, people } from '../db/schema'
+import { nowDate, nowMs } from '../core/time/clock'
 
 export const LOGIN_MAX_FAILURES = 10
 export const LOGIN_WINDOW_MS = 15 * 60 * 1000
@@ -13,14 +14,14 @@ export function findPersonByEmail(email: string) {
 }
 
 /** Failed sign-ins for this e-mail inside the window; kept in the database so a restart does not reset it. */
-export function countRecentLoginFailures(email: string, now = Date.now()) {
+export function countRecentLoginFailures(email: string, now = nowMs()) {
   const row = useDB().select({ n: sql<number>`count(*)` }).from(loginAttempts)
     .where(and(eq(loginAttempts.email, email), gte(loginAttempts.at, new Date(now - LOGIN_WINDOW_MS)))).get()
   return row?.n ?? 0
 }
 
 export function recordLoginFailure(email: string) {
-  useDB().insert(loginAttempts).values({ email, at: new Date() }).run()
+  useDB().insert(loginAttempts).values({ email, at: nowDate() }).run()
 }
 
 export function clearLoginFailures(email: string) {
@@ -28,7 +29,7 @@ export function clearLoginFailures(email: string) {
 }
 
 export function updatePasswordHash(personId: number, passwordHash: string) {
-  useDB().update(people).set({ passwordHash, updatedAt: new Date() }).where(eq(people.id, personId)).run()
+  useDB().update(people).set({ passwordHash, updatedAt: nowDate() }).where(eq(people.id, personId)).run()
 }
 
 /** The public view of a person, as GET /api/people lists them. */

@@ -12,6 +12,7 @@ import { buildCrewSiteView, type CrewSiteView } from './crew-day'
 import { deliverOutboxMessage, enqueueOutboxMessage, hasOutboxMessage, type DeliveryOutcome } from './outbox'
 import type { MailSender } from '../adapters/mail'
 import { localMidnightMs } from '../core/time/zoned'
+import { nowMs as clockNowMs } from '../core/time/clock'
 
 export const REMINDER_KIND = 'reminder'
 
@@ -96,7 +97,7 @@ export function composeReminderForPlan(db: AppDatabase, plan: ReminderPlan, opti
 
 /** Queues the reminders for a date that are not in the outbox yet; returns the ids of the new ones. */
 export function queueRemindersForDate(db: AppDatabase, date: string, options: { siteIds?: number[], baseUrl: string | null, nowMs?: number }): number[] {
-  const nowMs = options.nowMs ?? Date.now()
+  const nowMs = options.nowMs ?? clockNowMs()
   const created: number[] = []
   for (const plan of planRemindersForDate(db, date, options.siteIds)) {
     if (hasOutboxMessage(db, plan.dedupeKey)) continue

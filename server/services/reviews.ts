@@ -15,6 +15,7 @@ import { compareReviewQueueItems, shapeReviewQueueItem, type ReviewQueueItem } f
 import { loadAssignees, loadLatestReviews, loadShiftRowConflicts, toShiftView, type ShiftReviewSummary } from './shifts'
 import type { ShiftConflict } from '../core/planning/conflicts'
 import { describeWindowWeather, loadSiteForecast, loadSiteObservations, type ObservationRow, type SiteForecastState } from './site-weather'
+import { nowMs as clockNowMs } from '../core/time/clock'
 
 const HOUR_MS = 3_600_000
 
@@ -175,7 +176,7 @@ export function countReviewStates(db: AppDatabase, query: Pick<ReviewQueueQuery,
 }
 
 /** The review queue: flagged shifts in one review state, soonest first, shaped for the reviewer. */
-export function buildReviewQueue(db: AppDatabase, query: ReviewQueueQuery, nowMs = Date.now()) {
+export function buildReviewQueue(db: AppDatabase, query: ReviewQueueQuery, nowMs = clockNowMs()) {
   const rows = db.select().from(shifts)
     .where(and(...queueConditions(query, nowMs), eq(shifts.reviewState, query.state)))
     .orderBy(asc(shifts.startAt), asc(shifts.id)).all()
@@ -191,7 +192,7 @@ export function buildReviewQueue(db: AppDatabase, query: ReviewQueueQuery, nowMs
 }
 
 /** One shift as the reviewer sees it, with every decision made on it; reviewable says whether a decision is possible now. */
-export function buildReviewItem(db: AppDatabase, shiftId: number, nowMs = Date.now()) {
+export function buildReviewItem(db: AppDatabase, shiftId: number, nowMs = clockNowMs()) {
   const row = db.select().from(shifts).where(eq(shifts.id, shiftId)).get()
   if (!row) throw notFound('Shift')
   const [item] = shapeShiftRows(db, [row], nowMs)

@@ -17,6 +17,7 @@ import { formatZonedIso, localDateOf, resolveLocalOrInstant } from '../core/time
 import { addDays } from '../../shared/format'
 import { resolveWallTimeOnce } from '../core/time/instant-format'
 import { InstantSchema } from '../utils/validation'
+import { nowMs as clockNowMs } from '../core/time/clock'
 
 export const SHIFT_IMPORT_COLUMNS = ['site', 'title', 'start', 'end', 'light', 'assignees', 'notes']
 const REQUIRED_COLUMNS = ['site', 'title', 'start', 'end', 'light', 'assignees']
@@ -64,7 +65,7 @@ interface ParsedRow {
 type Reader = Pick<AppDatabase, 'select'>
 
 /** The downloadable template: the header and two example rows of the demo scenario, dated tomorrow. */
-export function buildShiftImportTemplate(nowMs = Date.now()): string {
+export function buildShiftImportTemplate(nowMs = clockNowMs()): string {
   const camp = addDays(localDateOf(nowMs, 'Arctic/Longyearbyen'), 1)
   const yard = addDays(localDateOf(nowMs, 'Europe/Oslo'), 1)
   return writeCsvText(SHIFT_IMPORT_COLUMNS, [

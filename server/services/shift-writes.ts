@@ -8,6 +8,7 @@ import { conflict, notFound } from '../utils/errors'
 import { announceShiftChange } from './shift-notices'
 import { computeCandidateConflicts } from './conflict-context'
 import type { ShiftConflict } from '../core/planning/conflicts'
+import { nowDate } from '../core/time/clock'
 
 /** A flagged shift waits for review; an unflagged one needs none. */
 export function initialReviewState(flagged: boolean): Shift['reviewState'] {
@@ -88,7 +89,7 @@ export function updateShift(db: AppDatabase, actor: Pick<User, 'id'>, id: number
       ...check,
       reviewState,
       version: current.version + 1,
-      updatedAt: new Date()
+      updatedAt: nowDate()
     }).where(eq(shifts.id, id)).run()
     if (patch.assigneeIds) {
       tx.delete(shiftAssignees).where(eq(shiftAssignees.shiftId, id)).run()
@@ -116,7 +117,7 @@ export function cancelShift(db: AppDatabase, actor: Pick<User, 'id'>, id: number
     if (version !== undefined && version !== current.version) {
       throw conflict('This shift was changed by someone else since you opened it. Reload it before cancelling.', { currentVersion: current.version })
     }
-    tx.update(shifts).set({ cancelledAt: new Date(), version: current.version + 1, updatedAt: new Date() }).where(eq(shifts.id, id)).run()
+    tx.update(shifts).set({ cancelledAt: nowDate(), version: current.version + 1, updatedAt: nowDate() }).where(eq(shifts.id, id)).run()
     const assigneeIds = tx.select({ id: shiftAssignees.personId }).from(shiftAssignees).where(eq(shiftAssignees.shiftId, id)).all().map(r => r.id)
     recordAudit(tx, actor.id, 'shift.cancel', 'shift', id, { title: current.title, version: current.version + 1 })
     return { id, assigneeIds }

@@ -8,6 +8,7 @@ import { announceShiftChange } from './shift-notices'
 import { computeStoredCheck } from './shifts'
 import { initialReviewState } from './shift-writes'
 import { SiteBodySchema } from './sites'
+import { nowDate } from '../core/time/clock'
 
 export const SitePatchSchema = SiteBodySchema.partial()
 export type SitePatch = z.infer<typeof SitePatchSchema>
@@ -42,7 +43,7 @@ function recheckSiteShifts(tx: Tx, site: Site, material: boolean): RecheckedShif
     const check = computeStoredCheck(site, row.startAt.getTime(), row.endAt.getTime(), row.light)
     const reviewState = material ? initialReviewState(check.flagged) : row.reviewState
     if (check.minutesBelow === row.minutesBelow && check.flagged === row.flagged && reviewState === row.reviewState) continue
-    tx.update(shifts).set({ ...check, reviewState, version: row.version + 1, updatedAt: new Date() }).where(eq(shifts.id, row.id)).run()
+    tx.update(shifts).set({ ...check, reviewState, version: row.version + 1, updatedAt: nowDate() }).where(eq(shifts.id, row.id)).run()
     const assigneeIds = tx.select({ id: shiftAssignees.personId }).from(shiftAssignees).where(eq(shiftAssignees.shiftId, row.id)).all().map(r => r.id)
     changed.push({ id: row.id, assigneeIds, flaggedNow: check.flagged && !row.flagged })
   }
@@ -63,7 +64,7 @@ export function updateSite(db: AppDatabase, actorId: number, id: number, patch: 
     const moved = (patch.latitude !== undefined && patch.latitude !== before.latitude)
       || (patch.longitude !== undefined && patch.longitude !== before.longitude)
     const rezoned = patch.timezone !== undefined && patch.timezone !== before.timezone
-    const site = tx.update(sites).set({ ...patch, updatedAt: new Date() }).where(eq(sites.id, id)).returning().get()
+    const site = tx.update(sites).set({ ...patch, updatedAt: nowDate() }).where(eq(sites.id, id)).returning().get()
     const changed = moved || rezoned ? recheckSiteShifts(tx, site, moved) : []
     recordAudit(tx, actorId, 'site.update', 'site', id, {
       before: { name: before.name, latitude: before.latitude, longitude: before.longitude, timezone: before.timezone },
@@ -84,8 +85,8 @@ export function archiveSite(db: AppDatabase, actorId: number, id: number, archiv
   return db.transaction((tx) => {
     const before = requireSiteRow(tx, id)
     // archiving twice keeps the first date
-    const archivedAt = archived ? (before.archivedAt ?? new Date()) : null
-    const site = tx.update(sites).set({ archivedAt, updatedAt: new Date() }).where(eq(sites.id, id)).returning().get()
+    const archivedAt = archived ? (before.archivedAt ?? nowDate()) : null
+    const site = tx.update(sites).set({ archivedAt, updatedAt: nowDate() }).where(eq(sites.id, id)).returning().get()
     recordAudit(tx, actorId, archived ? 'site.archive' : 'site.unarchive', 'site', id, { name: site.name })
     return site
   })

@@ -14,6 +14,7 @@ import { findSlots, MAX_SLOTS_PER_DAY, type SlotPerson } from '../core/planning/
 import { requireAssignees, requireSiteForShift } from './shifts'
 import { LocalDateSchema } from '../utils/validation'
 import { loadWorkRules } from './work-rules'
+import { nowMs as clockNowMs } from '../core/time/clock'
 
 /** Longest window one search may cover, in local days (from and to inclusive). */
 export const MAX_SLOT_WINDOW_DAYS = 90
@@ -86,7 +87,7 @@ function loadSlotContext(db: AppDatabase, personIds: number[], fromMs: number, t
 }
 
 /** Runs a slot search for a validated body; `nowMs` keeps slots out of the past. */
-export function searchSlots(db: AppDatabase, body: SlotSearchBody, nowMs = Date.now()): SlotSearchResult {
+export function searchSlots(db: AppDatabase, body: SlotSearchBody, nowMs = clockNowMs()): SlotSearchResult {
   const site = requireSiteForShift(db, body.siteId)
   const place = { latitude: site.latitude, longitude: site.longitude, timezone: site.timezone }
   // A slot that starts on the last day may run past its midnight: add the days it can reach.

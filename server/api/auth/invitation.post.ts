@@ -15,6 +15,6 @@ export default defineEventHandler(async (event) => {
   if (problem) throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: `Invalid password: ${problem}`, data: { issues: [{ field: 'password', message: problem }] } })
   const updated = acceptInvitation(db, token, await hashPassword(password))
   const user = { id: updated.id, email: updated.email, name: updated.name, role: updated.role }
-  await setUserSession(event, { user, loggedInAt: Date.now() })
+  await setUserSession(event, { user, loggedInAt: nowMs() })
   return { user }
 })

@@ -22,6 +22,6 @@ export default defineEventHandler(async (event) => {
   if (failures > 0) clearLoginFailures(email)
   if (passwordNeedsReHash(person.passwordHash)) updatePasswordHash(person.id, await hashPassword(password))
   const user = { id: person.id, email: person.email, name: person.name, role: person.role }
-  await setUserSession(event, { user, loggedInAt: Date.now() })
+  await setUserSession(event, { user, loggedInAt: nowMs() })
   return { user }
 })

@@ -19,7 +19,7 @@ export default defineEventHandler(async (event) => {
     throw createError({ statusCode: 400, message: 'Invalid role: you cannot demote or deactivate yourself', data: { issues: [{ field: changes.active === false ? 'active' : 'role', message: 'not on your own account' }] } })
   }
   useDB().transaction((tx) => {
-    tx.update(people).set({ ...changes, updatedAt: new Date() }).where(eq(people.id, id)).run()
+    tx.update(people).set({ ...changes, updatedAt: nowDate() }).where(eq(people.id, id)).run()
     recordAudit(tx, actor.id, 'person.update', 'person', id, { before, changes })
   })
   return findPersonPublic(id)

@@ -4,6 +4,7 @@
 // Pure: no framework or database imports.
 import lookupZoneAt from '@photostructure/tz-lookup'
 import { formatDuration, zoneOffsetMinutes } from '../../../shared/format'
+import { nowMs as clockNowMs } from './clock'
 
 /** Beyond this gap between zone time and local mean solar time, the suggestion carries a warning. */
 export const SOLAR_GAP_WARNING_MINUTES = 90
@@ -85,7 +86,7 @@ function findWorstSeasonGap(timezone: string, solarOffsetMinutes: number, nowMs:
 }
 
 /** How far a zone's clock is from the sun's time at a longitude, with a warning past 90 minutes. */
-export function describeZoneSolarGap(timezone: string, longitude: number, nowMs = Date.now()): ZoneSolarGap {
+export function describeZoneSolarGap(timezone: string, longitude: number, nowMs = clockNowMs()): ZoneSolarGap {
   const zoneOffset = zoneOffsetMinutes(nowMs, timezone)
   const solarOffsetMinutes = Math.round(longitude * MINUTES_PER_DEGREE)
   const worst = findWorstSeasonGap(timezone, solarOffsetMinutes, nowMs)
@@ -99,7 +100,7 @@ export function describeZoneSolarGap(timezone: string, longitude: number, nowMs 
 }
 
 /** The zone suggested for coordinates, the zones nearby, and how far its clock is from the sun. */
-export function suggestTimeZone(latitude: number, longitude: number, nowMs = Date.now()): ZoneSuggestion {
+export function suggestTimeZone(latitude: number, longitude: number, nowMs = clockNowMs()): ZoneSuggestion {
   const candidates = findNearbyZones(latitude, longitude)
   return { ...describeZoneSolarGap(candidates[0]!, longitude, nowMs), candidates }
 }

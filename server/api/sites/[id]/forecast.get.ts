@@ -6,6 +6,6 @@ export default defineEventHandler(async (event) => {
   await requireRole(event)
   const { id } = readParamsAs(event, IdParamsSchema)
   const site = requireSite(id)
-  const stored = loadSiteForecast(useDB(), site.id, Date.now())
+  const stored = loadSiteForecast(useDB(), site.id, nowMs())
   return { siteId: site.id, timezone: site.timezone, staleAfterHours: SITE_FORECAST_STALE_HOURS, ...stored }
 })

@@ -19,7 +19,7 @@ export default defineEventHandler(async (event) => {
   const site = requireSite(id)
   return computeRunup({
     siteId: site.id, latitude: site.latitude, longitude: site.longitude, timezone: site.timezone,
-    from: q.from ?? localDateOf(Date.now(), site.timezone),
+    from: q.from ?? localDateOf(nowMs(), site.timezone),
     minCivilHours: q.minCivilHours ?? DEFAULT_MIN_CIVIL_HOURS
   })
 })

@@ -15,6 +15,6 @@ export default defineEventHandler(async (event) => {
   const { id } = readParamsAs(event, IdParamsSchema)
   const q = readQueryAs(event, QuerySchema)
   const site = requireSite(id)
-  const year = q.year ?? Number(localDateOf(Date.now(), site.timezone).slice(0, 4))
+  const year = q.year ?? Number(localDateOf(nowMs(), site.timezone).slice(0, 4))
   return computeYearChart({ siteId: site.id, latitude: site.latitude, longitude: site.longitude, timezone: site.timezone, year })
 })

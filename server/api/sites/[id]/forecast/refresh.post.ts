@@ -8,5 +8,5 @@ export default defineEventHandler(async (event) => {
   const site = requireSite(id)
   const db = useDB()
   const outcome = await refreshSiteForecast(db, site, { ...readForecastSettings(), actorId: actor.id })
-  return { siteId: site.id, ...outcome, forecast: loadSiteForecast(db, site.id, Date.now()) }
+  return { siteId: site.id, ...outcome, forecast: loadSiteForecast(db, site.id, nowMs()) }
 })

@@ -13,7 +13,7 @@ export default defineEventHandler(async (event) => {
   const { id } = readParamsAs(event, IdParamsSchema)
   const query = readQueryAs(event, QuerySchema)
   const site = requireSite(id)
-  const toMs = query.to ? Date.parse(query.to) : Date.now()
+  const toMs = query.to ? Date.parse(query.to) : nowMs()
   const fromMs = query.from ? Date.parse(query.from) : toMs - 7 * DAY_MS
   return { siteId: site.id, timezone: site.timezone, observations: loadSiteObservations(useDB(), site.id, fromMs, toMs) }
 })

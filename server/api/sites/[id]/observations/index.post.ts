@@ -6,7 +6,7 @@ export default defineEventHandler(async (event) => {
   const { id } = readParamsAs(event, IdParamsSchema)
   const body = await readBodyAs(event, ObservationInputSchema)
   const site = requireSite(id)
-  const checked = convertObservationInput(body, site.timezone, Date.now())
+  const checked = convertObservationInput(body, site.timezone, nowMs())
   if (!checked.ok) throw invalidInput([{ field: checked.field, message: checked.message }])
   const [stored] = insertSiteObservations(useDB(), actor.id, site.id, [checked.row], 'manual')
   setResponseStatus(event, 201)

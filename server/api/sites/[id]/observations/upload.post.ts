@@ -14,7 +14,7 @@ export default defineEventHandler(async (event) => {
   const { id } = readParamsAs(event, IdParamsSchema)
   const body = await readBodyAs(event, BodySchema)
   const site = requireSite(id)
-  const parsed = parseObservationCsv(body.csv, body.units, site.timezone, Date.now())
+  const parsed = parseObservationCsv(body.csv, body.units, site.timezone, nowMs())
   if (parsed.issues.length) throw invalidInput(parsed.issues)
   const stored = insertSiteObservations(useDB(), actor.id, site.id, parsed.rows, 'csv')
   setResponseStatus(event, 201)
