@@ -1,0 +1,201 @@
+// The moon as a light layer (DESIGN.md, "Moon"): for each local day of a site, when the moon is up,
+// its rises and sets, its lit fraction at the middle of the day and its highest altitude.
+// suncalc's moon position is topocentric (it applies the moon's parallax) and adds the same
+// refraction model as for the sun; that refraction is undone exactly (../sun/position.ts), so "up"
+// means the geometric altitude of the moon's centre is at or above −0.833°, the sun's rise and set
+// altitude, on the same footing as the sun's bands. Pure TypeScript: no framework imports.
+import { getMoonIllumination, getMoonPosition } from 'suncalc'
+import { convertApparentToGeometric, minimizeBrent, normalizeSunLatitude, normalizeSunLongitude, solveRootBrent } from '../sun/position'
+import { formatZonedIso, localMidnightMs } from '../time/zoned'
+
+/** Geometric altitude (degrees) of the moon's centre at rise and set, as for the sun. */
+export const MOON_HORIZON_DEG = -0.833
+
+const MINUTE_MS = 60_000
+// The moon's altitude changes by at most ~15° an hour and has one highest and one lowest point per
+// ~24.8 h; a 20-minute grid shows each of them as a local extreme of the samples. Each is refined, and
+// crossings are searched only on the monotone pieces between them, so a shallow dip past the horizon
+// between two samples is still found.
+const GRID_STEP_MS = 20 * MINUTE_MS
+const ROOT_TOLERANCE_MS = 1_000
+const EXTREMUM_TOLERANCE_MS = 5_000
+// Local dates allowed in one call (a year and a bit, as the light routes).
+const MAX_MOON_DAYS = 800
+
+export interface MoonSpanMs { startMs: number, endMs: number }
+export interface MoonEventMs { type: 'moonrise' | 'moonset', atMs: number, azimuth: number }
+export interface MoonDayMs {
+  date: string
+  up: MoonSpanMs[]
+  events: MoonEventMs[]
+  /** Lit fraction (0–1) at the middle of the local day. */
+  illumination: number
+  /** Highest geometric altitude of the moon's centre during the local day, degrees to 0.01. */
+  maxAltitude: number
+}
+
+/** One local day's moon in the API shape: ISO instants with the site zone's offset. */
+export interface MoonDay {
+  up: { start: string, end: string }[]
+  events: { type: 'moonrise' | 'moonset', at: string, azimuth: number }[]
+  illumination: number
+  maxAltitude: number
+}
+
+export interface MoonDaysInput {
+  latitude: number
+  longitude: number
+  timezone: string
+  /** First and last local date (YYYY-MM-DD), inclusive. */
+  from: string
+  to: string
+}
+
+const SCRATCH_DATE = new Date(0)
+
+/** Geometric topocentric altitude (degrees) of the moon's centre at an instant, from suncalc. */
+export function sampleMoonAltitude(ms: number, latitude: number, longitude: number): number {
+  SCRATCH_DATE.setTime(ms)
+  return convertApparentToGeometric(getMoonPosition(SCRATCH_DATE, latitude, longitude).altitude)
+}
+
+function sampleMoonAzimuth(ms: number, latitude: number, longitude: number): number {
+  SCRATCH_DATE.setTime(ms)
+  const azimuth = Math.round(getMoonPosition(SCRATCH_DATE, latitude, longitude).azimuth * 10) / 10
+  return azimuth >= 360 ? 0 : azimuth < 0 ? azimuth + 360 : azimuth
+}
+
+/** The moon's lit fraction (0–1) at an instant, from suncalc. */
+export function sampleMoonIllumination(ms: number): number {
+  return getMoonIllumination(new Date(ms)).fraction
+}
+
+function addDate(date: string, days: number): string {
+  const [y, m, d] = date.split('-').map(Number) as [number, number, number]
+  return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10)
+}
+
+function roundTo(value: number, digits: number): number {
+  const f = 10 ** digits
+  return Math.round(value * f) / f
+}
+
+interface MoonTrace {
+  /** Sample instants and altitudes in time order, with every refined extremum: monotone between neighbours. */
+  times: number[]
+  alts: number[]
+  crossings: { ms: number, rising: boolean }[]
+}
+
+// Samples the altitude on a grid one step beyond both ends, inserts each refined extremum, then finds
+// every crossing of the horizon altitude on the monotone pieces between neighbouring points.
+function traceMoon(latitude: number, longitude: number, fromMs: number, toMs: number): MoonTrace {
+  const alt = (ms: number) => sampleMoonAltitude(ms, latitude, longitude)
+  const grid: number[] = []
+  for (let t = fromMs - GRID_STEP_MS; t < toMs + GRID_STEP_MS; t += GRID_STEP_MS) grid.push(t)
+  grid.push(toMs + GRID_STEP_MS)
+  const gridAlts = grid.map(alt)
+  const times: number[] = [grid[0]!]
+  const alts: number[] = [gridAlts[0]!]
+  for (let i = 1; i < grid.length; i++) {
+    const prev = gridAlts[i - 1]!
+    const here = gridAlts[i]!
+    const next = gridAlts[i + 1]
+    if (next !== undefined && ((here >= prev && here >= next) || (here <= prev && here <= next))) {
+      // a highest (or lowest) sample: refine the true extremum between its neighbours
+      const sign = here >= prev ? -1 : 1
+      const best = minimizeBrent(ms => sign * alt(ms), grid[i - 1]!, grid[i + 1]!, grid[i]!, sign * here, EXTREMUM_TOLERANCE_MS, 60, sign * prev, sign * next)
+      const [a, b] = best.x < grid[i]! ? [[best.x, sign * best.fx], [grid[i]!, here]] : [[grid[i]!, here], [best.x, sign * best.fx]]
+      times.push(a[0]!, b[0]!)
+      alts.push(a[1]!, b[1]!)
+    } else {
+      times.push(grid[i]!)
+      alts.push(here)
+    }
+  }
+  const crossings: MoonTrace['crossings'] = []
+  const above = (ms: number) => alt(ms) - MOON_HORIZON_DEG
+  for (let i = 1; i < times.length; i++) {
+    const fa = alts[i - 1]! - MOON_HORIZON_DEG
+    const fb = alts[i]! - MOON_HORIZON_DEG
+    if ((fa >= 0) === (fb >= 0) || times[i]! <= times[i - 1]!) continue
+    const root = solveRootBrent(above, times[i - 1]!, times[i]!, fa, fb, ROOT_TOLERANCE_MS)
+    crossings.push({ ms: Math.round(root / 1000) * 1000, rising: fb >= 0 })
+  }
+  return { times, alts, crossings }
+}
+
+// The up spans of [startMs, endMs): the state at the start, then flipped at each crossing inside.
+function cutSpans(trace: MoonTrace, startMs: number, endMs: number, upAtStart: boolean): MoonSpanMs[] {
+  const spans: MoonSpanMs[] = []
+  let openedAt = upAtStart ? startMs : NaN
+  for (const c of trace.crossings) {
+    if (c.ms <= startMs || c.ms >= endMs) continue
+    if (c.rising && Number.isNaN(openedAt)) openedAt = c.ms
+    if (!c.rising && !Number.isNaN(openedAt)) {
+      if (c.ms > openedAt) spans.push({ startMs: openedAt, endMs: c.ms })
+      openedAt = NaN
+    }
+  }
+  if (!Number.isNaN(openedAt) && endMs > openedAt) spans.push({ startMs: openedAt, endMs })
+  return spans
+}
+
+function highestInDay(trace: MoonTrace, startMs: number, endMs: number, edgeAlts: [number, number]): number {
+  let best = Math.max(edgeAlts[0], edgeAlts[1])
+  for (let i = 0; i < trace.times.length; i++) {
+    const t = trace.times[i]!
+    if (t > startMs && t < endMs && trace.alts[i]! > best) best = trace.alts[i]!
+  }
+  return best
+}
+
+/** The moon over each local date from..to (inclusive) at a site, as epoch milliseconds; spans cut at local midnight. */
+export function computeMoonDaysMs(input: MoonDaysInput): MoonDayMs[] {
+  const latitude = normalizeSunLatitude(input.latitude)
+  const longitude = normalizeSunLongitude(input.longitude)
+  const dates: string[] = []
+  for (let d = input.from; d <= input.to; d = addDate(d, 1)) {
+    dates.push(d)
+    if (dates.length > MAX_MOON_DAYS) throw new RangeError(`the range may span at most ${MAX_MOON_DAYS} days`)
+  }
+  if (!dates.length) return []
+  const bounds = [...dates, addDate(input.to, 1)].map(d => localMidnightMs(d, input.timezone))
+  const trace = traceMoon(latitude, longitude, bounds[0]!, bounds[dates.length]!)
+  const edgeAlts = bounds.map(ms => sampleMoonAltitude(ms, latitude, longitude))
+  return dates.map((date, j) => {
+    const startMs = bounds[j]!
+    const endMs = bounds[j + 1]!
+    const events = trace.crossings.filter(c => c.ms >= startMs && c.ms < endMs).map(c => ({
+      type: c.rising ? 'moonrise' as const : 'moonset' as const,
+      atMs: c.ms,
+      azimuth: sampleMoonAzimuth(c.ms, latitude, longitude)
+    }))
+    return {
+      date,
+      up: cutSpans(trace, startMs, endMs, edgeAlts[j]! >= MOON_HORIZON_DEG),
+      events,
+      illumination: roundTo(sampleMoonIllumination((startMs + endMs) / 2), 3),
+      maxAltitude: roundTo(highestInDay(trace, startMs, endMs, [edgeAlts[j]!, edgeAlts[j + 1]!]), 2)
+    }
+  })
+}
+
+/** The moon over each local date from..to with ISO 8601 instants in the site zone's offset. */
+export function computeMoonDays(input: MoonDaysInput): (MoonDay & { date: string })[] {
+  const iso = (ms: number) => formatZonedIso(ms, input.timezone)
+  return computeMoonDaysMs(input).map(day => ({
+    date: day.date,
+    up: day.up.map(s => ({ start: iso(s.startMs), end: iso(s.endMs) })),
+    events: day.events.map(e => ({ type: e.type, at: iso(e.atMs), azimuth: e.azimuth })),
+    illumination: day.illumination,
+    maxAltitude: day.maxAltitude
+  }))
+}
+
+/** Adds each day's `moon` to light days of the same site and dates (matched by date). */
+export function attachMoonToDays<T extends { date: string }>(days: T[], input: Omit<MoonDaysInput, 'from' | 'to'>): (T & { moon: MoonDay })[] {
+  if (!days.length) return []
+  const moons = new Map(computeMoonDays({ ...input, from: days[0]!.date, to: days[days.length - 1]!.date }).map(({ date, ...moon }) => [date, moon]))
+  return days.map(day => ({ ...day, moon: moons.get(day.date)! }))
+}
