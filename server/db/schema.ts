@@ -1,5 +1,6 @@
 import { sql } from 'drizzle-orm'
 import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core'
+import type { ReviewReasonDetail, ReviewShiftSnapshot } from '../../shared/review'
 
 export const ROLES = ['coordinator', 'safety', 'crew'] as const
 export const LIGHT_REQUIREMENTS = ['daylight', 'civil', 'any'] as const
@@ -18,6 +19,9 @@ export const people = sqliteTable('people', {
   remindersEnabled: integer('reminders_enabled', { mode: 'boolean' }).notNull().default(true),
   // 'site' shows times in each site's zone; any IANA name shows them in that zone
   displayZone: text('display_zone').notNull().default('site'),
+  // the person's own zone for whole days away; null: their home site's zone, else UTC
+  timezone: text('timezone'),
+  homeSiteId: integer('home_site_id'),
   // cold and wind figures on screens and in mail: °C, km/h, m or °F, mph, ft
   units: text('units', { enum: ['metric', 'imperial'] }).notNull().default('metric'),
   feedTokenHash: text('feed_token_hash'),
@@ -64,6 +68,26 @@ export const unavailability = sqliteTable('unavailability', {
   createdAt
 }, t => [index('unavailability_person_idx').on(t.personId, t.startAt)])
 
+export const rotations = sqliteTable('rotations', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  siteId: integer('site_id').notNull().references(() => sites.id),
+  title: text('title').notNull(),
+  light: text('light', { enum: LIGHT_REQUIREMENTS }).notNull(),
+  // local dates YYYY-MM-DD, both included; times HH:mm on the site's wall clock
+  fromDate: text('from_date').notNull(),
+  toDate: text('to_date').notNull(),
+  startTime: text('start_time').notNull(),
+  endTime: text('end_time').notNull(),
+  onDays: integer('on_days').notNull(),
+  offDays: integer('off_days').notNull(),
+  travelMinutes: integer('travel_minutes'),
+  // the people as last planned (each shift keeps its own list)
+  assigneeIds: text('assignee_ids', { mode: 'json' }).$type<number[]>().notNull(),
+  createdBy: integer('created_by').references(() => people.id),
+  createdAt,
+  updatedAt
+}, t => [index('rotations_site_idx').on(t.siteId, t.fromDate)])
+
 export const shifts = sqliteTable('shifts', {
   id: integer('id').primaryKey({ autoIncrement: true }),
   siteId: integer('site_id').notNull().references(() => sites.id),
@@ -77,15 +101,19 @@ export const shifts = sqliteTable('shifts', {
   minutesBelow: integer('minutes_below').notNull().default(0),
   flagged: integer('flagged', { mode: 'boolean' }).notNull().default(false),
   reviewState: text('review_state', { enum: REVIEW_STATES }).notNull().default('not-needed'),
+  // why the shift needs a safety decision, with the figures behind each reason (shared/review.ts)
+  reviewReasons: text('review_reasons', { mode: 'json' }).$type<ReviewReasonDetail[]>().notNull().default(sql`'[]'`),
   // the reason a coordinator gave for keeping a shift despite its conflict warnings
   conflictOverride: text('conflict_override'),
   // optimistic concurrency: every accepted change increments it; a stale copy gets 409
   version: integer('version').notNull().default(1),
   cancelledAt: integer('cancelled_at', { mode: 'timestamp_ms' }),
   createdBy: integer('created_by').references(() => people.id),
+  // the rotation this shift was made by, if any; it stays an ordinary shift
+  rotationId: integer('rotation_id').references(() => rotations.id),
   createdAt,
   updatedAt
-}, t => [index('shifts_site_time_idx').on(t.siteId, t.startAt), index('shifts_time_idx').on(t.startAt, t.endAt)])
+}, t => [index('shifts_rotation_idx').on(t.rotationId, t.startAt), index('shifts_site_time_idx').on(t.siteId, t.startAt), index('shifts_time_idx').on(t.startAt, t.endAt)])
 
 export const shiftAssignees = sqliteTable('shift_assignees', {
   shiftId: integer('shift_id').notNull().references(() => shifts.id, { onDelete: 'cascade' }),
@@ -101,6 +129,8 @@ export const reviews = sqliteTable('reviews', {
   note: text('note').notNull().default(''),
   // the shift version the decision was made on
   shiftVersion: integer('shift_version').notNull(),
+  // what the shift was when decided (times, site, light, people), to show what changed when it re-opens
+  snapshot: text('snapshot', { mode: 'json' }).$type<ReviewShiftSnapshot>(),
   createdAt
 }, t => [index('reviews_shift_idx').on(t.shiftId)])
 
@@ -201,6 +231,7 @@ export type NewPerson = typeof people.$inferInsert
 export type Site = typeof sites.$inferSelect
 export type NewSite = typeof sites.$inferInsert
 export type Crew = typeof crews.$inferSelect
+export type Rotation = typeof rotations.$inferSelect
 export type Shift = typeof shifts.$inferSelect
 export type NewShift = typeof shifts.$inferInsert
 export type Review = typeof reviews.$inferSelect
