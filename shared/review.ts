@@ -1,5 +1,8 @@
-// Safety review: decisions, mitigation keys and the words the client and server share.
+// Safety review: decisions, mitigation keys, review reasons and the words the client and server
+// share: one word per review state, the same on every screen, in mail, CSV and the calendar feed.
 // Imports neither Vue nor Nitro.
+import { formatDuration, formatLocalTime } from './format'
+import type { LightRequirement } from './light'
 
 export const REVIEW_DECISIONS = ['approved', 'rejected', 'changes-requested'] as const
 export type ReviewDecision = typeof REVIEW_DECISIONS[number]
@@ -37,4 +40,80 @@ export function describeMitigation(item: string): string {
 export function formatSigned(value: number): string {
   const rounded = Math.round(value)
   return rounded < 0 ? `−${Math.abs(rounded)}` : String(rounded)
+}
+
+/** The review states, in the order people meet them. */
+export const REVIEW_STATE_KEYS = ['not-needed', 'pending', 'approved', 'rejected', 'changes-requested'] as const
+export type ReviewStateKey = typeof REVIEW_STATE_KEYS[number]
+
+/** One word (or short phrase) per review state, used everywhere a state is named. */
+export const REVIEW_STATE_WORDS: Record<ReviewStateKey, string> = {
+  'not-needed': 'No review needed',
+  'pending': 'Awaiting review',
+  'approved': 'Approved',
+  'rejected': 'Rejected',
+  'changes-requested': 'Sent back'
+}
+
+/** The verb on the decision form for each decision (its state word is REVIEW_STATE_WORDS). */
+export const REVIEW_DECISION_VERBS: Record<typeof REVIEW_DECISIONS[number], string> = {
+  'approved': 'Approve',
+  'rejected': 'Reject',
+  'changes-requested': 'Send back'
+}
+
+/** Why a shift goes to safety review (DESIGN.md): its light, the cold, one person alone in the dark, its length. */
+export const REVIEW_REASONS = ['light', 'cold', 'lone', 'long'] as const
+export type ReviewReason = typeof REVIEW_REASONS[number]
+
+export const REVIEW_REASON_WORDS: Record<ReviewReason, string> = {
+  light: 'Below its light',
+  cold: 'Cold',
+  lone: 'Alone in the dark',
+  long: 'Long shift'
+}
+
+/** A review reason with the figures behind it, as stored on the shift and sent on every reply. */
+export type ReviewReasonDetail =
+  | { reason: 'light', minutesBelow: number, requirement: LightRequirement }
+  | { reason: 'cold', windChillC: number | null, at: string | null, limitC: number, stopWork: boolean, temperatureC: number, windKmh: number, basis: 'forecast' | 'observations' }
+  | { reason: 'lone', minutesDark: number }
+  | { reason: 'long', minutes: number, maxMinutes: number }
+
+const LIGHT_NEED_WORDS: Record<LightRequirement, string> = { daylight: 'daylight', civil: 'civil light', any: 'any light' }
+
+/** The figure of a reason in words: `2 h 10 min below daylight`, `wind chill −46 at 14:00 (limit −27)`. */
+export function describeReviewReasonFigure(detail: ReviewReasonDetail, timezone?: string): string {
+  switch (detail.reason) {
+    case 'light':
+      return `${formatDuration(detail.minutesBelow)} below ${LIGHT_NEED_WORDS[detail.requirement]}`
+    case 'cold': {
+      const at = detail.at && timezone ? ` at ${formatLocalTime(detail.at, timezone)}` : ''
+      const from = detail.basis === 'observations' ? ' (site reading)' : ''
+      if (detail.windChillC !== null && detail.windChillC <= detail.limitC) {
+        return `wind chill ${formatSigned(detail.windChillC)}${at}, limit ${formatSigned(detail.limitC)}${from}${detail.stopWork ? '; stop-work cold' : ''}`
+      }
+      return `stop-work cold: ${formatSigned(detail.temperatureC)} °C, wind ${detail.windKmh} km/h${at}${from}`
+    }
+    case 'lone':
+      return `one person, ${formatDuration(detail.minutesDark)} with the sun below −6°`
+    case 'long':
+      return `${formatDuration(detail.minutes)}, over the ${formatDuration(detail.maxMinutes)} maximum`
+  }
+}
+
+/** A reason as one line people read: `Cold: wind chill −46 at 14:00, limit −27`. */
+export function describeReviewReason(detail: ReviewReasonDetail, timezone?: string): string {
+  return `${REVIEW_REASON_WORDS[detail.reason]}: ${describeReviewReasonFigure(detail, timezone)}`
+}
+
+/** The shift as it was when a decision was made: compared with the shift now when it re-opens. */
+export interface ReviewShiftSnapshot {
+  title: string
+  siteName: string
+  start: string
+  end: string
+  light: LightRequirement
+  travelMinutes: number
+  assignees: string[]
 }
