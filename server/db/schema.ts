@@ -197,6 +197,8 @@ export const invitations = sqliteTable('invitations', {
   tokenHash: text('token_hash').notNull(),
   expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull(),
   usedAt: integer('used_at', { mode: 'timestamp_ms' }),
+  // 'invitation' sets a first password (72 h); 'reset' replaces a forgotten one (1 h)
+  purpose: text('purpose', { enum: ['invitation', 'reset'] }).notNull().default('invitation'),
   createdBy: integer('created_by').references(() => people.id),
   createdAt
 }, t => [uniqueIndex('invitations_token_unique').on(t.tokenHash)])
@@ -220,6 +222,23 @@ export const fieldCheckIns = sqliteTable('field_check_ins', {
   personId: integer('person_id').references(() => people.id),
   note: text('note').notNull().default('')
 }, t => [index('field_check_ins_outing_idx').on(t.outingId, t.at)])
+
+// One row per signed-in browser. The sealed cookie carries a random session id; only its SHA-256 is
+// stored. A request is honoured only while its row exists and is not ended, so signing out, a new
+// password or deactivation stops a copied cookie at once.
+export const sessions = sqliteTable('sessions', {
+  idHash: text('id_hash').primaryKey(),
+  personId: integer('person_id').notNull().references(() => people.id, { onDelete: 'cascade' }),
+  createdAt,
+  endedAt: integer('ended_at', { mode: 'timestamp_ms' })
+}, t => [index('sessions_person_idx').on(t.personId)])
+
+// Failed sign-ins per key ('account:<e-mail>' or 'address:<client address>'), counted atomically.
+export const signInLimits = sqliteTable('sign_in_limits', {
+  key: text('key').primaryKey(),
+  failures: integer('failures').notNull(),
+  lastFailureAt: integer('last_failure_at', { mode: 'timestamp_ms' }).notNull()
+})
 
 export const settings = sqliteTable('settings', {
   key: text('key').primaryKey(),
