@@ -6,14 +6,16 @@ import { and, asc, eq, gt, inArray, isNull, lt } from 'drizzle-orm'
 import { people, shiftAssignees, shifts, sites, type Person, type Shift, type Site } from '../db/schema'
 import type { LightPeriod, LightPeriodMs, LightRequirement } from '../../shared/light'
 import { COLD_CAUTIONS } from '../../shared/cold'
-import { addDays, formatDate, formatDuration, formatLocalTime, formatUtcOffset, localDateIn } from '../../shared/format'
+import { addDays, formatDate, formatDuration, formatLocalTime, formatUtcOffset } from '../../shared/format'
 import { describeMitigation } from '../../shared/review'
 import type { AppDatabase } from '../utils/db'
 import { computeLightDaysMs, computeLightPeriodsInRange } from '../core/light/index'
-import { loadAssignees, loadLatestReviews, type ShiftReviewSummary } from './shifts'
+import { MAX_SHIFT_MS, loadAssignees, loadLatestReviews, type ShiftReviewSummary } from './shifts'
 import { describeWindowWeather, loadSiteForecast, loadSiteObservations, type SiteForecastState } from './site-weather'
 import { sumBandMinutes, type ColdWindowFigures, type WindowWeather } from '../core/review/queue'
-import { formatZonedIso, localMidnightMs } from '../core/time/zoned'
+import { formatZonedIso } from '../core/time/zoned'
+import { localDateOf, localMidnightMs } from '../core/time/zone-table'
+import { summariseMoonDays, type MoonDaySummary } from '../core/light/moon'
 import { nowDate, nowMs as clockNowMs } from '../core/time/clock'
 
 const DAY_MS = 86_400_000
@@ -47,6 +49,8 @@ export interface CrewLightDay {
   periods: LightPeriod[]
   /** The light window as labelled rows, in the order the home screen and the reminder show them. */
   rows: CrewLightRow[]
+  /** The moon over the day: spans for the strip (site zone), words with times in the display zone. */
+  moon: MoonDaySummary
 }
 
 export interface CrewLightRow {
@@ -141,7 +145,7 @@ function momentsValue(moments: CrewMoment[], empty: string): string {
 }
 
 // Why a crossing is missing: the whole day is on one side of its threshold, or it falls on another date.
-function describeMissing(kind: 'sun' | 'civil', day: Omit<CrewLightDay, 'rows'>): string {
+function describeMissing(kind: 'sun' | 'civil', day: Omit<CrewLightDay, 'rows' | 'moon'>): string {
   if (kind === 'sun' && day.status === 'polar-night') return 'none: polar night'
   if (kind === 'sun' && day.status === 'midnight-sun') return 'none: the sun is up all day'
   if (kind === 'civil' && day.civilLightMinutes === 0) return 'none: no civil light'
@@ -150,7 +154,7 @@ function describeMissing(kind: 'sun' | 'civil', day: Omit<CrewLightDay, 'rows'>)
 }
 
 /** The light window as rows: civil dawn, sunrise, solar noon, sunset, civil dusk, daylight, civil light. */
-export function describeLightRows(day: Omit<CrewLightDay, 'rows'>): CrewLightRow[] {
+export function describeLightRows(day: Omit<CrewLightDay, 'rows' | 'moon'>): CrewLightRow[] {
   const time = (key: CrewLightRow['key'], label: string, moments: CrewMoment[], kind: 'sun' | 'civil'): CrewLightRow =>
     ({ key, label, moments, value: momentsValue(moments, describeMissing(kind, day)), note: null })
   const altitude = Math.round(day.noonAltitude * 10) / 10
@@ -181,11 +185,12 @@ function nameDayBefore(date: string, today: string | undefined): string {
 /** The light of each local date from..to at a site, times written in `zone`, with the change from the day before. */
 export function summariseCrewLightDays(site: Pick<Site, 'latitude' | 'longitude' | 'timezone'>, from: string, to: string, zone: string, today?: string): CrewLightDay[] {
   const days = computeLightDaysMs({ latitude: site.latitude, longitude: site.longitude, timezone: site.timezone, from: addDays(from, -1), to })
+  const moons = summariseMoonDays({ latitude: site.latitude, longitude: site.longitude, timezone: site.timezone, from, to, zone, formatTime: formatLocalTime })
   return days.slice(1).map((day, i) => {
     const before = days[i]!
     const events = (type: string) => day.events.filter(e => e.type === type).map(e => toMoment(e.atMs, zone))
     const since = nameDayBefore(day.date, today)
-    const summary: Omit<CrewLightDay, 'rows'> = {
+    const summary: Omit<CrewLightDay, 'rows' | 'moon'> = {
       date: day.date,
       dateLabel: formatDate(day.date),
       status: day.status,
@@ -207,14 +212,15 @@ export function summariseCrewLightDays(site: Pick<Site, 'latitude' | 'longitude'
       // the bands of the site's local day, on the site's wall clock (a strip runs midnight to midnight there)
       periods: day.periods.map(p => ({ kind: p.kind, start: formatZonedIso(p.startMs, site.timezone), end: formatZonedIso(p.endMs, site.timezone) }))
     }
-    return { ...summary, rows: describeLightRows(summary) }
+    const { date: _date, ...moon } = moons[i]!
+    return { ...summary, rows: describeLightRows(summary), moon }
   })
 }
 
 /** A shift's clock times (`08:00–14:00`, the end's date added when it falls on another local day) and offset (both across a clock change). */
 export function splitCrewSpan(startMs: number, endMs: number, zone: string): { timeText: string, offsetText: string } {
-  const sameDay = localDateIn(startMs, zone) === localDateIn(endMs, zone)
-  const end = sameDay ? formatLocalTime(endMs, zone) : `${formatDate(localDateIn(endMs, zone))} ${formatLocalTime(endMs, zone)}`
+  const sameDay = localDateOf(startMs, zone) === localDateOf(endMs, zone)
+  const end = sameDay ? formatLocalTime(endMs, zone) : `${formatDate(localDateOf(endMs, zone))} ${formatLocalTime(endMs, zone)}`
   const a = formatUtcOffset(startMs, zone)
   const b = formatUtcOffset(endMs, zone)
   return { timeText: `${formatLocalTime(startMs, zone)}–${end}`, offsetText: a === b ? a : `${a} → ${b} (clocks change)` }
@@ -350,11 +356,12 @@ export function describeCrewShift(input: ShiftDescriptionInput): CrewShift {
 
 /** The person's shifts (not cancelled) overlapping [fromMs, toMs), soonest first. */
 export function loadPersonShifts(db: AppDatabase, personId: number, fromMs: number, toMs: number): Shift[] {
-  const ids = db.select({ id: shiftAssignees.shiftId }).from(shiftAssignees).where(eq(shiftAssignees.personId, personId)).all().map(r => r.id)
-  if (!ids.length) return []
-  return db.select().from(shifts)
-    .where(and(inArray(shifts.id, ids), isNull(shifts.cancelledAt), lt(shifts.startAt, new Date(toMs)), gt(shifts.endAt, new Date(fromMs))))
-    .orderBy(asc(shifts.startAt)).all()
+  // a join, not a list of the person's shift ids (SQLite binds at most 32,766 parameters); no shift
+  // lasts longer than MAX_SHIFT_MS, which bounds the start so the time index reads the range alone
+  return db.select({ shift: shifts }).from(shiftAssignees)
+    .innerJoin(shifts, eq(shifts.id, shiftAssignees.shiftId))
+    .where(and(eq(shiftAssignees.personId, personId), isNull(shifts.cancelledAt), lt(shifts.startAt, new Date(toMs)), gt(shifts.startAt, new Date(fromMs - MAX_SHIFT_MS)), gt(shifts.endAt, new Date(fromMs))))
+    .orderBy(asc(shifts.startAt)).all().map(r => r.shift)
 }
 
 export interface SiteDaysInput {
@@ -373,7 +380,7 @@ export function buildCrewSiteView(db: AppDatabase, input: SiteDaysInput): CrewSi
   const zone = resolveDisplayZone(person.displayZone, site.timezone)
   const first = dates[0]!.date
   const last = dates[dates.length - 1]!.date
-  const light = summariseCrewLightDays(site, first, last, zone, localDateIn(input.nowMs, site.timezone))
+  const light = summariseCrewLightDays(site, first, last, zone, localDateOf(input.nowMs, site.timezone))
   const forecast = loadSiteForecast(db, site.id, input.nowMs)
   const rangeStart = localMidnightMs(first, site.timezone)
   const rangeEnd = localMidnightMs(addDays(last, 1), site.timezone)
@@ -406,7 +413,7 @@ export function buildCrewSiteView(db: AppDatabase, input: SiteDaysInput): CrewSi
 function describeForecastNote(forecast: SiteForecastState, zone: string): string {
   if (!forecast.latest) return 'No forecast for this site yet.'
   const at = Date.parse(forecast.latest.fetchedAt)
-  const when = `${formatDate(localDateIn(at, zone))} ${formatLocalTime(at, zone)} ${formatUtcOffset(at, zone)}`
+  const when = `${formatDate(localDateOf(at, zone))} ${formatLocalTime(at, zone)} ${formatUtcOffset(at, zone)}`
   return forecast.state === 'stale' ? `Forecast from ${when}: more than 6 hours old, conditions may have changed.` : `Forecast fetched ${when} (${forecast.latest.source}).`
 }
 
@@ -417,6 +424,27 @@ export interface CrewToday {
   basis: 'shifts' | 'all-sites'
   basisNote: string
   sites: CrewSiteView[]
+  /** The person's shift under way or next within 7 days, with the light of its day; null when none. */
+  next: CrewNextShift | null
+}
+
+export interface CrewNextShift {
+  siteId: number
+  siteName: string
+  zoneNote: string
+  day: Omit<CrewDay, 'shifts'>
+  shift: CrewShift
+}
+
+// The next shift with its site's light on the local date it starts, built as a one-day site view.
+function buildCrewNext(db: AppDatabase, person: Person, row: Shift | undefined, site: Site | undefined, nowMs: number): CrewNextShift | null {
+  if (!row || !site) return null
+  const today = localDateOf(nowMs, site.timezone)
+  const date = localDateOf(row.startAt.getTime(), site.timezone)
+  const which = date === today ? 'today' as const : date === addDays(today, 1) ? 'tomorrow' as const : 'day' as const
+  const view = buildCrewSiteView(db, { site, dates: [{ date, which }], person, shifts: [row], match: 'overlaps', nowMs })
+  const { shifts: dayShifts, ...day } = view.days[0]!
+  return { siteId: site.id, siteName: site.name, zoneNote: view.zoneNote, day, shift: dayShifts[0]! }
 }
 
 /** Today and tomorrow at each site where the person works in the next 7 days (or every site when none). */
@@ -432,7 +460,7 @@ export function buildCrewToday(db: AppDatabase, personId: number, nowMs = clockN
   // the day before today too, so a night shift that started yesterday still shows today
   const nearby = loadPersonShifts(db, personId, nowMs - 2 * DAY_MS, nowMs + 3 * DAY_MS)
   const views = siteRows.map((site) => {
-    const today = localDateIn(nowMs, site.timezone)
+    const today = localDateOf(nowMs, site.timezone)
     const dates = [{ date: today, which: 'today' as const }, { date: addDays(today, 1), which: 'tomorrow' as const }]
     return buildCrewSiteView(db, { site, dates, person, shifts: nearby, match: 'overlaps', nowMs })
   })
@@ -444,7 +472,8 @@ export function buildCrewToday(db: AppDatabase, personId: number, nowMs = clockN
     basisNote: basis === 'shifts'
       ? 'The sites where you have shifts in the next 7 days.'
       : 'You have no shifts in the next 7 days, so every site is shown.',
-    sites: views
+    sites: views,
+    next: buildCrewNext(db, person, upcoming[0], siteRows.find(s => s.id === upcoming[0]?.siteId), nowMs)
   }
 }
 

@@ -4,7 +4,7 @@
 // "Moon"). The −0.833° rise and set altitude for the centre is the sun's convention (DESIGN.md, "Moon").
 import { describe, expect, it } from 'vitest'
 import { Body, Equator, Horizon, Illumination, Observer } from 'astronomy-engine'
-import { MOON_HORIZON_DEG, attachMoonToDays, computeMoonDays, computeMoonDaysMs, type MoonDayMs } from '../../server/core/light/moon'
+import { MOON_HORIZON_DEG, attachMoonToDays, computeMoonDays, computeMoonDaysMs, summariseMoonDays, type MoonDayMs } from '../../server/core/light/moon'
 import { localMidnightMs } from '../../server/core/time/zoned'
 
 interface Site { name: string, latitude: number, longitude: number, timezone: string }
@@ -129,5 +129,25 @@ describe('moon day shape', () => {
     const attached = attachMoonToDays([{ date: '2026-12-14', x: 1 }, { date: '2026-12-15', x: 2 }], SVALBARD)
     expect(attached.map(d => d.moon)).toEqual(days.map(({ date: _date, ...moon }) => moon))
     expect(attached[1]!.x).toBe(2)
+  })
+})
+
+describe('moon words for the crew screens', () => {
+  const hhmm = (ms: number, zone: string) => new Intl.DateTimeFormat('en-GB', { timeZone: zone, hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(ms)
+
+  it('joins a span across midnight into one "rise–set" and names whole days up or down (78.2°N, December 2026)', () => {
+    const input = { ...SVALBARD, from: '2026-12-01', to: '2026-12-31', zone: SVALBARD.timezone, formatTime: hhmm }
+    const words = summariseMoonDays(input)
+    const raw = computeMoonDaysMs({ ...SVALBARD, from: '2026-12-01', to: '2027-01-02' })
+    expect(words).toHaveLength(31)
+    expect(words.some(w => w.words.startsWith('Moon up all day,'))).toBe(true)
+    expect(words.some(w => w.words.startsWith('Moon below the horizon all day,'))).toBe(true)
+    // a day whose only event is a rise and whose next day begins with a set reads "rise–set"
+    const i = raw.findIndex((d, k) => k < 30 && d.events.length === 1 && d.events[0]!.type === 'moonrise' && raw[k + 1]!.events[0]?.type === 'moonset')
+    expect(i).toBeGreaterThanOrEqual(0)
+    const rise = hhmm(raw[i]!.events[0]!.atMs, SVALBARD.timezone)
+    const set = hhmm(raw[i + 1]!.events[0]!.atMs, SVALBARD.timezone)
+    expect(words[i]!.words).toBe(`Moon up ${rise}–${set}, ${Math.round(raw[i]!.illumination * 100)} % lit`)
+    for (const w of words) expect(w.upMinutes).toBeLessThanOrEqual(25 * 60)
   })
 })

@@ -199,3 +199,63 @@ export function attachMoonToDays<T extends { date: string }>(days: T[], input: O
   const moons = new Map(computeMoonDays({ ...input, from: days[0]!.date, to: days[days.length - 1]!.date }).map(({ date, ...moon }) => [date, moon]))
   return days.map(day => ({ ...day, moon: moons.get(day.date)! }))
 }
+
+/** The moon of one local day as the crew screens show it: spans for the strip, and a line of words. */
+export interface MoonDaySummary {
+  /** Up spans cut at the day's midnights, ISO in the site's zone (drawn on the day strip). */
+  up: { start: string, end: string }[]
+  illumination: number
+  maxAltitude: number
+  /** `Moon up 14:10–02:30, 92 % lit`, with times in the display zone. */
+  words: string
+  /** Minutes the moon is up within the local day. */
+  upMinutes: number
+}
+
+interface MoonWordsInput extends MoonDaysInput {
+  /** Zone the times in the words are written in (the site's or the person's choice). */
+  zone: string
+  formatTime: (ms: number, zone: string) => string
+}
+
+// Spans joined across midnight, so a moon up 14:10–02:30 reads as one span rather than two.
+function joinSpans(days: MoonDayMs[]): MoonSpanMs[] {
+  const out: MoonSpanMs[] = []
+  for (const span of days.flatMap(d => d.up)) {
+    const last = out[out.length - 1]
+    if (last && last.endMs === span.startMs) last.endMs = span.endMs
+    else out.push({ ...span })
+  }
+  return out
+}
+
+function describeSpan(span: MoonSpanMs, dayStart: number, dayEnd: number, zone: string, time: MoonWordsInput['formatTime']): string {
+  const starts = span.startMs > dayStart
+  const ends = span.endMs < dayEnd + 86_400_000
+  if (!starts && span.endMs >= dayEnd) return 'all day'
+  if (!starts) return `until ${time(span.endMs, zone)}`
+  if (!ends) return `from ${time(span.startMs, zone)}, and all the next day`
+  return `${time(span.startMs, zone)}–${time(span.endMs, zone)}`
+}
+
+/** The moon of each local date from..to in words and spans, for the crew's home screen and briefing. */
+export function summariseMoonDays(input: MoonWordsInput): (MoonDaySummary & { date: string })[] {
+  const wide = computeMoonDaysMs({ ...input, from: addDate(input.from, -1), to: addDate(input.to, 2) })
+  const joined = joinSpans(wide)
+  const iso = (ms: number) => formatZonedIso(ms, input.timezone)
+  return wide.slice(1, -2).map((day) => {
+    const dayStart = localMidnightMs(day.date, input.timezone)
+    const dayEnd = localMidnightMs(addDate(day.date, 1), input.timezone)
+    const lit = `${Math.round(day.illumination * 100)} % lit`
+    const parts = joined.filter(s => s.endMs > dayStart && s.startMs < dayEnd).map(s => describeSpan(s, dayStart, dayEnd, input.zone, input.formatTime))
+    const words = parts.length ? `Moon up ${parts.join(' and ')}, ${lit}` : `Moon below the horizon all day, ${lit}`
+    return {
+      date: day.date,
+      up: day.up.map(s => ({ start: iso(s.startMs), end: iso(s.endMs) })),
+      illumination: day.illumination,
+      maxAltitude: day.maxAltitude,
+      words,
+      upMinutes: Math.round(day.up.reduce((sum, s) => sum + s.endMs - s.startMs, 0) / 60_000)
+    }
+  })
+}
