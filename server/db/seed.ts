@@ -38,7 +38,9 @@ const PEOPLE = [
   { name: 'Greta Holm', email: 'greta.holm@gloamline.test', role: 'crew' },
   { name: 'Siri Dahl', email: 'siri.dahl@gloamline.test', role: 'crew' },
   { name: 'Tane Walker', email: 'tane.walker@gloamline.test', role: 'crew' },
-  { name: 'Ana Kealoha', email: 'ana.kealoha@gloamline.test', role: 'crew' }
+  { name: 'Ana Kealoha', email: 'ana.kealoha@gloamline.test', role: 'crew' },
+  { name: 'Rolf Strand', email: 'rolf.strand@gloamline.test', role: 'crew' },
+  { name: 'Aino Korhonen', email: 'aino.korhonen@gloamline.test', role: 'crew' }
 ] as const
 
 const CREWS = [
@@ -50,13 +52,20 @@ const CREWS = [
 interface Pattern { hour: number, hours: number, title: string, light: 'daylight' | 'civil' | 'any', people: string[], days: number[] }
 const MON_SAT = [1, 2, 3, 4, 5, 6]
 const MON_FRI = [1, 2, 3, 4, 5]
+const SUNDAY = [0]
 
 // per site: the work pattern (local start hour, length, task, requirement, the same people each
-// working day, so nobody is planned twice at once or without a night's rest)
+// working day, so nobody is planned twice at once or without a night's rest). Seeded on any date, every
+// day of the week holds both flagged and clear work, and the crew demo account works every day:
+// - clear every day: 'any' light never flags (weather mast Mon–Sat, camp systems round on Sundays);
+// - flagged every day: the night outage switching at Larsen Wharf (60.4° N) needs daylight, and the
+//   sun is below the horizon there at local midnight all year (it never rises above 0° at midnight
+//   south of the Arctic Circle).
 const PATTERNS: Record<string, Pattern[]> = {
   'Kvitfjell Ice Camp': [
     { hour: 9, hours: 4, title: 'Snow-machine route check', light: 'civil', people: ['crew@gloamline.test', 'jonas.eide@gloamline.test'], days: MON_SAT },
-    { hour: 13, hours: 3, title: 'Weather mast service', light: 'any', people: ['liv.aasen@gloamline.test', 'kalle.niemi@gloamline.test'], days: MON_FRI }
+    { hour: 13, hours: 3, title: 'Weather mast service', light: 'any', people: ['liv.aasen@gloamline.test', 'kalle.niemi@gloamline.test'], days: MON_SAT },
+    { hour: 10, hours: 3, title: 'Camp systems round', light: 'any', people: ['crew@gloamline.test'], days: SUNDAY }
   ],
   'Ravnvik Pipeline Yard': [
     { hour: 8, hours: 6, title: 'Pipe stringing', light: 'daylight', people: ['sofia.marchetti@gloamline.test', 'nora.tuktu@gloamline.test'], days: MON_FRI },
@@ -70,7 +79,9 @@ const PATTERNS: Record<string, Pattern[]> = {
     { hour: 19, hours: 8, title: 'Pit lighting maintenance', light: 'any', people: ['mika.virtanen@gloamline.test', 'greta.holm@gloamline.test'], days: [1, 2, 3, 4] }
   ],
   'Larsen Wharf Line Crew': [
-    { hour: 9, hours: 5, title: 'Line patrol', light: 'daylight', people: ['siri.dahl@gloamline.test'], days: MON_FRI }
+    { hour: 9, hours: 5, title: 'Line patrol', light: 'daylight', people: ['siri.dahl@gloamline.test'], days: MON_FRI },
+    { hour: 22, hours: 4, title: 'Outage switching', light: 'daylight', people: ['rolf.strand@gloamline.test'], days: [0, 1, 2, 3] },
+    { hour: 22, hours: 4, title: 'Outage switching', light: 'daylight', people: ['aino.korhonen@gloamline.test'], days: [4, 5, 6] }
   ],
   'Cape Mawdsley Station': [
     { hour: 8, hours: 9, title: 'Sea-ice route flagging', light: 'daylight', people: ['tane.walker@gloamline.test', 'ana.kealoha@gloamline.test'], days: MON_SAT }

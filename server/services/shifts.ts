@@ -69,7 +69,8 @@ export function toShiftView(row: Shift, site: Pick<Site, 'name' | 'timezone'>, a
     conflictOverride: row.conflictOverride,
     conflicts,
     version: row.version,
-    cancelled: row.cancelledAt !== null
+    cancelled: row.cancelledAt !== null,
+    rotationId: row.rotationId ?? null
   }
 }
 

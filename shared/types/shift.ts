@@ -49,6 +49,8 @@ export interface ShiftReply {
   conflicts: ShiftConflict[]
   version: number
   cancelled: boolean
+  // the rotation that made this shift, or null for a shift made on its own
+  rotationId: number | null
   // set on create/patch replies when a wall-clock time fell in a clock-change gap or overlap
   timeNotes?: string[]
 }

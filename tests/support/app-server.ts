@@ -3,6 +3,8 @@ import { mkdtempSync, rmSync } from 'node:fs'
 import { createServer } from 'node:net'
 import { tmpdir } from 'node:os'
 import { join, resolve } from 'node:path'
+import { performance } from 'node:perf_hooks'
+import { TEST_CLOCK } from './clock'
 
 export const DEMO_PASSWORD = 'gloamline-demo'
 const ROOT = resolve(import.meta.dirname, '../..')
@@ -21,21 +23,54 @@ export function freePort(): Promise<number> {
   })
 }
 
+/** The server's clock as the test sees it: where it started and where it is now. */
+export interface ServerClock {
+  /** The instant the server's clock started at (GLOAMLINE_CLOCK_START). */
+  startMs: number
+  /** The server's "now": the start instant plus the time elapsed since (monotonic, never the machine's date). */
+  now: () => number
+}
+
 export interface AppServer {
   url: string
+  port: number
+  clock: ServerClock
   dataDir: string
   databasePath: string
   process: ChildProcess
   output: () => string
+  /** Resolves once the server's output matches (an event, not a fixed sleep); rejects after `ms`. */
+  waitForOutput: (pattern: RegExp, ms?: number) => Promise<string>
+  /** Stops the server gently (SIGTERM) and removes its temporary folder. */
   stop: () => Promise<void>
+  /** Ends the server at once (SIGKILL: no shutdown hooks run); keeps the database. */
+  kill: () => Promise<void>
 }
 
-/** Starts the built server (.output) on a free port with its own temporary database. */
-export async function startAppServer(options: { seed?: boolean, env?: Record<string, string>, databasePath?: string } = {}): Promise<AppServer> {
-  const port = await freePort()
+export interface StartOptions {
+  seed?: boolean
+  env?: Record<string, string>
+  databasePath?: string
+  /** The instant the server's clock starts at (ISO 8601); defaults to TEST_CLOCK.weekdayMorning. */
+  clockStart?: string
+  /** A port to listen on (the restart tests reuse one); a free one otherwise. */
+  port?: number
+}
+
+/**
+ * Starts the built server (.output) on a free port with its own temporary database, in test mode with
+ * its clock started at a fixed instant: what it calls "today" never depends on the machine's date.
+ */
+export async function startAppServer(options: StartOptions = {}): Promise<AppServer> {
+  const port = options.port ?? await freePort()
+  const clockStart = options.clockStart ?? TEST_CLOCK.weekdayMorning
+  const startMs = Date.parse(clockStart)
+  if (!Number.isFinite(startMs)) throw new Error(`clockStart is not an ISO instant: ${clockStart}`)
   const dataDir = mkdtempSync(join(tmpdir(), 'gloamline-e2e-'))
   const databasePath = options.databasePath ?? join(dataDir, 'test.sqlite')
   let log = ''
+  const listeners = new Set<() => void>()
+  const spawnedAt = performance.now()
   const child = spawn(process.execPath, [join(OUTPUT_DIR, 'server/index.mjs')], {
     cwd: dataDir,
     env: {
@@ -50,33 +85,69 @@ export async function startAppServer(options: { seed?: boolean, env?: Record<str
       SEED_DEMO: options.seed === false ? '0' : '1',
       SMTP_URL: 'smtp://127.0.0.1:9',
       FORECAST_BASE_URL: 'http://127.0.0.1:9',
+      GLOAMLINE_TEST_MODE: '1',
+      GLOAMLINE_CLOCK_START: clockStart,
       ...options.env
     },
     stdio: ['ignore', 'pipe', 'pipe']
   })
-  child.stdout!.on('data', (c) => { log += c })
-  child.stderr!.on('data', (c) => { log += c })
+  const collect = (chunk: Buffer) => {
+    log += chunk
+    for (const listener of listeners) listener()
+  }
+  child.stdout!.on('data', collect)
+  child.stderr!.on('data', collect)
   const url = `http://127.0.0.1:${port}`
-  const deadline = Date.now() + 20_000
+  const deadline = performance.now() + 20_000
   for (;;) {
     if (child.exitCode !== null) throw new Error(`server exited (${child.exitCode}):\n${log}`)
     try {
       const res = await fetch(`${url}/health`)
       if (res.ok) break
     } catch { /* not listening yet */ }
-    if (Date.now() > deadline) throw new Error(`server did not start:\n${log}`)
+    if (performance.now() > deadline) throw new Error(`server did not start:\n${log}`)
     await new Promise(r => setTimeout(r, 100))
   }
+  const exited = () => child.exitCode !== null || child.signalCode !== null
   return {
     url,
+    port,
+    clock: { startMs, now: () => startMs + (performance.now() - spawnedAt) },
     dataDir,
     databasePath,
     process: child,
     output: () => log,
+    waitForOutput: (pattern, ms = 20_000) => new Promise((res, rej) => {
+      const check = () => {
+        const match = pattern.exec(log)
+        if (!match) return false
+        finish()
+        res(match[0])
+        return true
+      }
+      const timer = setTimeout(() => {
+        finish()
+        rej(new Error(`timed out waiting for ${pattern} in the server output:\n${log}`))
+      }, ms)
+      const finish = () => {
+        clearTimeout(timer)
+        listeners.delete(listener)
+      }
+      const listener = () => { check() }
+      listeners.add(listener)
+      check()
+    }),
+    kill: async () => {
+      if (exited()) return
+      const gone = new Promise(r => child.once('exit', r))
+      child.kill('SIGKILL')
+      await gone
+    },
     stop: async () => {
-      if (child.exitCode === null && child.signalCode === null) {
+      if (!exited()) {
+        const gone = new Promise(r => child.once('exit', r))
         child.kill('SIGTERM')
-        await new Promise(r => child.once('exit', r))
+        await gone
       }
       rmSync(dataDir, { recursive: true, force: true })
     }

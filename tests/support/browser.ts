@@ -1,7 +1,7 @@
 import { mkdirSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { chromium, type Browser, type Page } from 'playwright-core'
-import { DEMO_PASSWORD } from './app-server'
+import { DEMO_PASSWORD, type AppServer } from './app-server'
 
 export const ARTEFACTS_DIR = resolve(import.meta.dirname, '../../test-results/screenshots')
 
@@ -29,4 +29,13 @@ export async function keepScreenshot(page: Page, name: string) {
   const path = resolve(ARTEFACTS_DIR, `${name}.png`)
   await page.screenshot({ path, fullPage: true })
   return path
+}
+
+/**
+ * Sets the page's clock to the server's (Playwright's page.clock, installed before the first
+ * navigation): the app then calls the same instant "now" as the server under test, whatever the
+ * machine's date. Time runs on from there.
+ */
+export async function matchServerClock(page: Page, server: Pick<AppServer, 'clock'>) {
+  await page.clock.install({ time: server.clock.now() })
 }
