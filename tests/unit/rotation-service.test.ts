@@ -1,0 +1,146 @@
+// Rotations on a fresh SQLite database, as the routes run them. References: the sun from
+// astronomy-engine 2.1.19 (geometric altitude of the centre, USNO band thresholds, DESIGN.md); the
+// wall clock from the tz data through Intl (Arctic/Longyearbyen: EU summer time, Directive
+// 2000/84/EC, forward 28 March 2027 and back 31 October 2027, 01:00 UTC).
+import { afterEach, describe, expect, it } from 'vitest'
+import { eq } from 'drizzle-orm'
+import { auditLog, people, rotations, settings, shifts, sites } from '../../server/db/schema'
+import { createRotation, loadRotationReply, previewRotation, reviewRotation, RotationBodySchema, updateRotationFrom, cancelRotationFrom } from '../../server/services/rotations'
+import { ReviewBodySchema } from '../../server/services/reviews'
+import { updateShift } from '../../server/services/shift-writes'
+import { BANDS_MEETING_REQUIREMENT } from '../../shared/light'
+import { createTestDatabase, removeTestDatabases } from '../support/test-database'
+import { ReferenceTimeline, REFERENCE_THRESHOLDS, referenceAltitude, referenceMinutesOutside } from './reference/sun-reference'
+
+const HOUR_MS = 3_600_000
+// an invented site at 76.4°N on Svalbard's clock
+const SITE = { name: 'Kvitneset Test Camp', latitude: 76.4, longitude: 16.2, timezone: 'Arctic/Longyearbyen' }
+
+afterEach(() => removeTestDatabases())
+
+function setup() {
+  const db = createTestDatabase('gloamline-rotation-')
+  const site = db.insert(sites).values(SITE).returning().get()
+  const [coord, safety, ana, ben] = db.insert(people).values([
+    { name: 'Cora Plan', email: 'cora@rotation.test', role: 'coordinator' },
+    { name: 'Sam Watch', email: 'sam@rotation.test', role: 'safety' },
+    { name: 'Ana Field', email: 'ana@rotation.test', role: 'crew' },
+    { name: 'Ben Field', email: 'ben@rotation.test', role: 'crew' }
+  ]).returning().all()
+  return { db, site, coord: coord!, safety: safety!, ana: ana!, ben: ben! }
+}
+
+function intlWall(ms: number) {
+  const p = Object.fromEntries(new Intl.DateTimeFormat('en-CA', { timeZone: SITE.timezone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).formatToParts(ms).map(x => [x.type, x.value]))
+  return `${p.year}-${p.month}-${p.day} ${p.hour}:${p.minute}`
+}
+
+// Minutes of [start, end) below daylight by astronomy-engine, with the allowance the light engine's
+// own tests use where the sun skims a threshold: suncalc and astronomy-engine differ by up to ~0.016°
+// in altitude (REFERENCES.md), worth more than a minute when the sun barely moves.
+function referenceCheck(startMs: number, endMs: number) {
+  const timeline = new ReferenceTimeline(SITE.latitude, SITE.longitude, startMs - HOUR_MS, endMs + HOUR_MS)
+  const minutes = referenceMinutesOutside(timeline, startMs, endMs, BANDS_MEETING_REQUIREMENT.daylight)
+  const crossings = timeline.crossings.filter(c => c.ms > startMs && c.ms < endMs && REFERENCE_THRESHOLDS[c.level] === -0.833)
+  const allowance = crossings.reduce((sum, c) => {
+    const perMinute = Math.abs(referenceAltitude(c.ms + 30_000, SITE.latitude, SITE.longitude) - referenceAltitude(c.ms - 30_000, SITE.latitude, SITE.longitude))
+    return sum + Math.min(30, 0.02 / perMinute)
+  }, 1)
+  return { minutes, allowance }
+}
+
+const body = (over: Record<string, unknown>) => RotationBodySchema.parse({
+  title: 'Weather mast service', light: 'daylight', from: '2027-10-18', to: '2027-11-21',
+  startTime: '09:00', endTime: '15:00', onDays: 4, offDays: 3, ...over
+})
+
+describe('a rotation on a database', () => {
+  it('makes a 4-on/3-off rotation through the autumn change into polar night: wall-clock times and each light check against astronomy-engine', () => {
+    const { db, site, coord, ana, ben } = setup()
+    const id = createRotation(db, coord, body({ siteId: site.id, assigneeIds: [ana.id, ben.id] }))
+    const reply = loadRotationReply(db, id)
+    expect(reply.shifts).toHaveLength(20)
+    for (const s of reply.shifts) {
+      const date = s.start.slice(0, 10)
+      expect(intlWall(Date.parse(s.start))).toBe(`${date} 09:00`)
+      expect(intlWall(Date.parse(s.end))).toBe(`${date} 15:00`)
+      expect(s.start.slice(19)).toBe(date < '2027-10-31' ? '+02:00' : '+01:00')
+      expect(s.rotationId).toBe(id)
+      expect(s.assigneeIds.sort()).toEqual([ana.id, ben.id].sort())
+      const ref = referenceCheck(Date.parse(s.start), Date.parse(s.end))
+      expect(Math.abs(s.lightCheck.minutesBelow - ref.minutes)).toBeLessThanOrEqual(ref.allowance)
+      expect(s.reviewState).toBe(s.lightCheck.flagged ? 'pending' : 'not-needed')
+    }
+    // into polar night: the last shifts are wholly without daylight (6 h = 360 minutes short)
+    expect(reply.shifts.at(-1)!.lightCheck.minutesBelow).toBe(360)
+    expect(reply.summary.shifts).toBe(20)
+    expect(reply.summary.flagged).toBe(reply.shifts.filter(s => s.lightCheck.flagged).length)
+    expect(reply.summary.minutesBelow).toBe(reply.shifts.reduce((n, s) => n + s.lightCheck.minutesBelow, 0))
+    expect(db.select().from(auditLog).where(eq(auditLog.action, 'rotation.create')).all()).toHaveLength(1)
+  })
+
+  it('previews the same shifts and light without writing anything, worst days first', () => {
+    const { db, site, coord } = setup()
+    const input = body({ siteId: site.id })
+    const preview = previewRotation(db, input)
+    expect(db.select().from(shifts).all()).toHaveLength(0)
+    expect(db.select().from(rotations).all()).toHaveLength(0)
+    const id = createRotation(db, coord, input)
+    const stored = loadRotationReply(db, id)
+    expect(preview.shifts.map(s => [s.start, s.end, s.minutesBelow])).toEqual(stored.shifts.map(s => [s.start, s.end, s.lightCheck.minutesBelow]))
+    expect(preview.summary.flagged).toBe(stored.summary.flagged)
+    const worst = preview.worstDays.map(d => d.minutesBelow)
+    expect(worst).toEqual([...worst].sort((a, b) => b - a))
+  })
+
+  it('warns of a night shift rotation\'s own short rest between days, per shift', () => {
+    const { db, site, ana } = setup()
+    // 20:00–08:00 daily leaves 12 h between shifts: with a 14 h rest rule in the work rules that is short
+    db.insert(settings).values({ key: 'work-rules', value: { minRestHours: 14, maxShiftHours: 13 } }).run()
+    const preview = previewRotation(db, body({ siteId: site.id, from: '2027-11-01', to: '2027-11-04', startTime: '20:00', endTime: '08:00', onDays: 1, offDays: 0, assigneeIds: [ana.id] }))
+    expect(preview.shifts).toHaveLength(4)
+    expect(preview.shifts.every(s => s.conflicts.some(c => c.kind === 'rest'))).toBe(true)
+  })
+
+  it('one decision approves every waiting shift; a later change to one shift re-opens that shift alone', () => {
+    const { db, site, coord, safety, ana } = setup()
+    const id = createRotation(db, coord, body({ siteId: site.id, assigneeIds: [ana.id] }))
+    const waiting = loadRotationReply(db, id).shifts.filter(s => s.reviewState === 'pending')
+    expect(waiting.length).toBeGreaterThan(5)
+    const decision = ReviewBodySchema.parse({ decision: 'approved', mitigations: ['check-in-interval:30'] })
+    expect(reviewRotation(db, safety, id, decision).decided).toBe(waiting.length)
+    const after = loadRotationReply(db, id).shifts
+    expect(after.filter(s => s.reviewState === 'approved')).toHaveLength(waiting.length)
+    const one = waiting[3]!
+    updateShift(db, coord, one.id, { start: new Date(Date.parse(one.start) - HOUR_MS).toISOString() })
+    const reopened = loadRotationReply(db, id).shifts.filter(s => s.reviewState === 'pending')
+    expect(reopened.map(s => s.id)).toEqual([one.id])
+    expect(reviewRotation(db, safety, id, decision).decided).toBe(1)
+  })
+
+  it('changes shifts from a date on and keeps earlier ones; cancels from a date on', () => {
+    const { db, site, coord } = setup()
+    const id = createRotation(db, coord, body({ siteId: site.id }))
+    const before = loadRotationReply(db, id).shifts
+    const { changed } = updateRotationFrom(db, coord, id, { fromDate: '2027-11-01', startTime: '10:00' })
+    const after = loadRotationReply(db, id).shifts
+    expect(changed).toBe(before.filter(s => s.start.slice(0, 10) >= '2027-11-01').length)
+    for (const [i, s] of after.entries()) {
+      const date = s.start.slice(0, 10)
+      expect(intlWall(Date.parse(s.start))).toBe(`${date} ${date >= '2027-11-01' ? '10:00' : '09:00'}`)
+      if (date < '2027-11-01') expect(s.version).toBe(before[i]!.version)
+    }
+    const { cancelled } = cancelRotationFrom(db, coord, id, '2027-11-15')
+    const final = loadRotationReply(db, id)
+    expect(cancelled).toBe(final.shifts.filter(s => s.cancelled).length)
+    expect(final.shifts.filter(s => s.cancelled).every(s => s.start.slice(0, 10) >= '2027-11-15')).toBe(true)
+    expect(final.summary.shifts).toBe(final.shifts.length - cancelled)
+  })
+
+  it('writes nothing when a person is unknown', () => {
+    const { db, site, coord } = setup()
+    expect(() => createRotation(db, coord, body({ siteId: site.id, assigneeIds: [999] }))).toThrow(/assigneeIds/)
+    expect(db.select().from(shifts).all()).toHaveLength(0)
+    expect(db.select().from(rotations).all()).toHaveLength(0)
+  })
+})
