@@ -187,6 +187,8 @@ export const messages = sqliteTable('messages', {
   attempts: integer('attempts').notNull().default(0),
   lastError: text('last_error'),
   nextAttemptAt: integer('next_attempt_at', { mode: 'timestamp_ms' }),
+  // a sender (any process) holds the message until then: nobody else sends it, not even a forced send
+  leaseUntil: integer('lease_until', { mode: 'timestamp_ms' }),
   sentAt: integer('sent_at', { mode: 'timestamp_ms' }),
   createdAt
 }, t => [uniqueIndex('messages_dedupe_unique').on(t.dedupeKey), index('messages_status_idx').on(t.status, t.nextAttemptAt)])

@@ -1,0 +1,1 @@
+ALTER TABLE `messages` ADD `lease_until` integer;
