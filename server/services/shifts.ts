@@ -1,10 +1,10 @@
 import { createError } from 'h3'
-import { and, desc, eq, gt, inArray, isNull, lt } from 'drizzle-orm'
+import { and, desc, eq, gt, inArray, isNull, lt, type SQLWrapper } from 'drizzle-orm'
 import { z } from 'zod'
 import { LIGHT_REQUIREMENTS, people, reviews, shiftAssignees, shifts, sites, type Shift, type Site } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
-import { checkShiftLight } from '../core/light/check'
-import { InstantSchema, LocalDateSchema } from '../utils/validation'
+import { checkShiftLight, computeOutingWindow, MAX_TRAVEL_MINUTES } from '../core/light/check'
+import { InstantSchema, LocalDateSchema, singleLineText } from '../utils/validation'
 import { formatZonedIso, localMidnightMs, resolveLocalOrInstant } from '../core/time/zoned'
 import type { ShiftConflict, ShiftReply as ShiftView, ShiftReview as ShiftReviewSummary } from '../../shared/types/shift'
 import { computeStoredShiftConflicts } from './conflict-context'
@@ -18,12 +18,14 @@ const ShiftTimeSchema = z.union([
 
 export const ShiftBodySchema = z.object({
   siteId: z.number({ error: 'expected a site id' }).int().positive(),
-  title: z.string().trim().min(1, 'required').max(200),
+  title: singleLineText(200),
   start: ShiftTimeSchema,
   end: ShiftTimeSchema,
   light: z.enum(LIGHT_REQUIREMENTS, { error: 'must be daylight, civil or any' }),
   assigneeIds: z.array(z.number().int().positive(), { error: 'expected a list of person ids' }).max(200).default([]),
   notes: z.string().max(4000).optional(),
+  // each way; absent: the site's travelMinutes
+  travelMinutes: z.number({ error: 'expected minutes of travel each way' }).int('must be whole minutes').min(0, 'must be 0 or more').max(MAX_TRAVEL_MINUTES, `must be at most ${MAX_TRAVEL_MINUTES}`).optional(),
   overrideReason: z.string().trim().max(1000).optional()
 })
 export type ShiftInput = z.infer<typeof ShiftBodySchema>
@@ -51,6 +53,7 @@ function fieldError(field: string, message: string) {
 
 /** Shapes a stored shift for the API, with its times in the site's zone. */
 export function toShiftView(row: Shift, site: Pick<Site, 'name' | 'timezone'>, assignees: { id: number, name: string }[], review: ShiftReviewSummary | null = null, conflicts: ShiftConflict[] = []): ShiftView {
+  const outing = computeOutingWindow(row.startAt.getTime(), row.endAt.getTime(), row.travelMinutes)
   return {
     id: row.id,
     siteId: row.siteId,
@@ -63,8 +66,17 @@ export function toShiftView(row: Shift, site: Pick<Site, 'name' | 'timezone'>, a
     notes: row.notes,
     assigneeIds: assignees.map(a => a.id),
     assignees,
-    lightCheck: { requirement: row.light, minutesBelow: row.minutesBelow, flagged: row.flagged },
+    travelMinutes: row.travelMinutes,
+    lightCheck: {
+      requirement: row.light,
+      minutesBelow: row.minutesBelow,
+      flagged: row.flagged,
+      checkedFrom: formatZonedIso(outing.fromMs, site.timezone),
+      checkedTo: formatZonedIso(outing.toMs, site.timezone)
+    },
     reviewState: row.reviewState,
+    reviewReasons: (row.reviewReasons ?? []).map(r => r.reason),
+    reviewReasonDetails: row.reviewReasons ?? [],
     review,
     conflictOverride: row.conflictOverride,
     conflicts,
@@ -74,13 +86,27 @@ export function toShiftView(row: Shift, site: Pick<Site, 'name' | 'timezone'>, a
   }
 }
 
+// SQLite binds at most 32,766 parameters per statement: a listed set of ids is read in slices of
+// this size, and the big reads (a week, a person's shifts, the feed) pass a subquery instead.
+const ID_SLICE = 10_000
+
+/** Which shifts a loader reads: a few listed ids, or a subquery selecting shift ids (any number). */
+export type ShiftIdScope = number[] | SQLWrapper
+
+function eachIdScope<T>(scope: ShiftIdScope, read: (ids: number[] | SQLWrapper) => T[]): T[] {
+  if (!Array.isArray(scope)) return read(scope)
+  if (scope.length <= ID_SLICE) return scope.length ? read(scope) : []
+  const out: T[] = []
+  for (let i = 0; i < scope.length; i += ID_SLICE) out.push(...read(scope.slice(i, i + ID_SLICE)))
+  return out
+}
+
 /** Assignees of many shifts at once: shiftId → people. */
-export function loadAssignees(db: Pick<AppDatabase, 'select'>, shiftIds: number[]) {
+export function loadAssignees(db: Pick<AppDatabase, 'select'>, scope: ShiftIdScope) {
   const map = new Map<number, { id: number, name: string }[]>()
-  if (!shiftIds.length) return map
-  const rows = db.select({ shiftId: shiftAssignees.shiftId, id: people.id, name: people.name })
+  const rows = eachIdScope(scope, ids => db.select({ shiftId: shiftAssignees.shiftId, id: people.id, name: people.name })
     .from(shiftAssignees).innerJoin(people, eq(people.id, shiftAssignees.personId))
-    .where(inArray(shiftAssignees.shiftId, shiftIds)).all()
+    .where(inArray(shiftAssignees.shiftId, ids)).all())
   for (const r of rows) {
     const list = map.get(r.shiftId) ?? []
     list.push({ id: r.id, name: r.name })
@@ -92,15 +118,17 @@ export function loadAssignees(db: Pick<AppDatabase, 'select'>, shiftIds: number[
 /** The latest review decision of many shifts at once: shiftId → summary. */
 // A decision still applies while the shift's review state is that decision: a change to time, site,
 // requirement or people moves the state (back to pending), a new title or note does not.
-export function loadLatestReviews(db: Pick<AppDatabase, 'select'>, rows: Pick<Shift, 'id' | 'reviewState'>[]) {
+// `scope` (a subquery selecting the same shifts' ids) replaces the list of the rows' ids when given.
+export function loadLatestReviews(db: Pick<AppDatabase, 'select'>, rows: Pick<Shift, 'id' | 'reviewState'>[], scope: ShiftIdScope = rows.map(r => r.id)) {
   const map = new Map<number, ShiftReviewSummary>()
   if (!rows.length) return map
   const states = new Map(rows.map(r => [r.id, r.reviewState]))
-  const found = db.select({ shiftId: reviews.shiftId, decision: reviews.decision, mitigations: reviews.mitigations, note: reviews.note, at: reviews.createdAt, shiftVersion: reviews.shiftVersion, reviewerName: people.name })
+  const found = eachIdScope(scope, ids => db.select({ id: reviews.id, shiftId: reviews.shiftId, decision: reviews.decision, mitigations: reviews.mitigations, note: reviews.note, at: reviews.createdAt, shiftVersion: reviews.shiftVersion, reviewerName: people.name })
     .from(reviews).innerJoin(people, eq(people.id, reviews.reviewerId))
-    .where(inArray(reviews.shiftId, rows.map(r => r.id))).orderBy(desc(reviews.id)).all()
+    .where(inArray(reviews.shiftId, ids)).orderBy(desc(reviews.id)).all())
+  if (Array.isArray(scope) && scope.length > ID_SLICE) found.sort((a, b) => b.id - a.id)
   for (const r of found) {
-    if (map.has(r.shiftId)) continue
+    if (map.has(r.shiftId) || !states.has(r.shiftId)) continue
     map.set(r.shiftId, { decision: r.decision, mitigations: r.mitigations, note: r.note, reviewerName: r.reviewerName, at: r.at.toISOString(), current: states.get(r.shiftId) === r.decision })
   }
   return map
@@ -115,9 +143,9 @@ export function resolveShiftTimes(start: string, end: string, timezone: string) 
   return { startMs: s.ms, endMs: e.ms, notes: [s.note, e.note].filter((n): n is string => Boolean(n)) }
 }
 
-/** The stored light check and the review state it implies. */
-export function computeStoredCheck(site: Pick<Site, 'latitude' | 'longitude'>, startMs: number, endMs: number, light: Shift['light']) {
-  const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: light })
+/** The stored light check over the outing (start − travel to end + travel). */
+export function computeStoredCheck(site: Pick<Site, 'latitude' | 'longitude'>, startMs: number, endMs: number, light: Shift['light'], travelMinutes = 0) {
+  const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: light, travelMinutes })
   return { minutesBelow: check.minutesBelow, flagged: check.flagged }
 }
 
@@ -147,18 +175,23 @@ export function findShiftsInRange(db: AppDatabase, query: z.infer<typeof ShiftLi
   const minStart = Math.min(...[...bounds.values()].map(b => b.startMs))
   const maxEnd = Math.max(...[...bounds.values()].map(b => b.endMs))
   const conditions = [isNull(shifts.cancelledAt), lt(shifts.startAt, new Date(maxEnd)), gt(shifts.endAt, new Date(minStart))]
+  // no shift lasts longer than MAX_SHIFT_MS, so none that overlaps the range starts earlier than this:
+  // the start index then reads the range alone, not every shift before it
+  if (minStart > -8e15) conditions.push(gt(shifts.startAt, new Date(minStart - MAX_SHIFT_MS)))
   if (query.siteId) conditions.push(eq(shifts.siteId, query.siteId))
   if (query.personId) {
-    const ids = db.select({ id: shiftAssignees.shiftId }).from(shiftAssignees).where(eq(shiftAssignees.personId, query.personId)).all().map(r => r.id)
-    conditions.push(inArray(shifts.id, ids))
+    conditions.push(inArray(shifts.id, db.select({ id: shiftAssignees.shiftId }).from(shiftAssignees).where(eq(shiftAssignees.personId, query.personId))))
   }
-  const rows = db.select().from(shifts).where(and(...conditions)).orderBy(shifts.startAt).all()
+  const where = and(...conditions)
+  const rows = db.select().from(shifts).where(where).orderBy(shifts.startAt).all()
     .filter((row) => {
       const b = bounds.get(row.siteId)
       return b !== undefined && row.startAt.getTime() < b.endMs && row.endAt.getTime() > b.startMs
     })
-  const assignees = loadAssignees(db, rows.map(r => r.id))
-  const latest = loadLatestReviews(db, rows)
+  // the same selection as a subquery, so that no statement carries one parameter per shift
+  const scope = db.select({ id: shifts.id }).from(shifts).where(where)
+  const assignees = loadAssignees(db, scope)
+  const latest = loadLatestReviews(db, rows, scope)
   const siteById = new Map(siteRows.map(s => [s.id, s]))
   const conflicts = loadShiftRowConflicts(db, rows, assignees)
   return rows.map(row => toShiftView(row, siteById.get(row.siteId)!, assignees.get(row.id) ?? [], latest.get(row.id) ?? null, conflicts.get(row.id) ?? []))
