@@ -9,6 +9,7 @@ import {
 } from '../../shared/review'
 import type { AppDatabase } from '../utils/db'
 import { recordAudit } from './audit'
+import { buildRotationQueueGroups, splitRotationRows } from './rotation-queue'
 import { conflict, notFound } from '../utils/errors'
 import { checkShiftLight } from '../core/light/check'
 import { compareReviewQueueItems, shapeReviewQueueItem, type ReviewQueueItem } from '../core/review/queue'
@@ -177,9 +178,11 @@ export function countReviewStates(db: AppDatabase, query: Pick<ReviewQueueQuery,
 
 /** The review queue: flagged shifts in one review state, soonest first, shaped for the reviewer. */
 export function buildReviewQueue(db: AppDatabase, query: ReviewQueueQuery, nowMs = clockNowMs()) {
-  const rows = db.select().from(shifts)
+  const listed = db.select().from(shifts)
     .where(and(...queueConditions(query, nowMs), eq(shifts.reviewState, query.state)))
     .orderBy(asc(shifts.startAt), asc(shifts.id)).all()
+  // a rotation's shifts in this state are one item (rotation-queue.ts); the rest are listed singly
+  const { groups, single: rows } = splitRotationRows(listed)
   const items = shapeShiftRows(db, rows.slice(0, query.limit), nowMs).sort(compareReviewQueueItems)
   return {
     state: query.state,
@@ -187,7 +190,8 @@ export function buildReviewQueue(db: AppDatabase, query: ReviewQueueQuery, nowMs
     generatedAt: new Date(nowMs).toISOString(),
     total: rows.length,
     counts: countReviewStates(db, query, nowMs),
-    items
+    items,
+    rotations: buildRotationQueueGroups(db, groups, grouped => shapeShiftRows(db, grouped, nowMs))
   }
 }
 

@@ -20,6 +20,7 @@ import { cancelShift, initialReviewState, updateShift } from './shift-writes'
 import { recordAudit } from './audit'
 import { announceShiftChange } from './shift-notices'
 import { recordReviewDecision, type ReviewInput } from './reviews'
+import { describeRotation } from './rotation-queue'
 import type { ShiftConflict } from '../../shared/types/shift'
 
 const TimeOfDaySchema = z.string({ error: 'expected a time of day as HH:mm' })
@@ -153,15 +154,6 @@ function requireRotation(db: Pick<AppDatabase, 'select'>, id: number): Rotation 
   const row = db.select().from(rotations).where(eq(rotations.id, id)).get()
   if (!row) throw notFound('Rotation')
   return row
-}
-
-/** The rotation as the API shows it. */
-export function describeRotation(row: Rotation, site: Pick<Site, 'name' | 'timezone'>) {
-  return {
-    id: row.id, siteId: row.siteId, siteName: site.name, timezone: site.timezone, title: row.title, light: row.light,
-    from: row.fromDate, to: row.toDate, startTime: row.startTime, endTime: row.endTime,
-    onDays: row.onDays, offDays: row.offDays, assigneeIds: row.assigneeIds, travelMinutes: row.travelMinutes
-  }
 }
 
 function loadRotationShiftRows(db: Pick<AppDatabase, 'select'>, rotationId: number): Shift[] {

@@ -6,7 +6,7 @@ import { afterEach, describe, expect, it } from 'vitest'
 import { eq } from 'drizzle-orm'
 import { auditLog, people, rotations, settings, shifts, sites } from '../../server/db/schema'
 import { createRotation, loadRotationReply, previewRotation, reviewRotation, RotationBodySchema, updateRotationFrom, cancelRotationFrom } from '../../server/services/rotations'
-import { ReviewBodySchema } from '../../server/services/reviews'
+import { buildReviewQueue, ReviewBodySchema, ReviewQueueQuerySchema } from '../../server/services/reviews'
 import { updateShift } from '../../server/services/shift-writes'
 import { BANDS_MEETING_REQUIREMENT } from '../../shared/light'
 import { createTestDatabase, removeTestDatabases } from '../support/test-database'
@@ -116,6 +116,29 @@ describe('a rotation on a database', () => {
     const reopened = loadRotationReply(db, id).shifts.filter(s => s.reviewState === 'pending')
     expect(reopened.map(s => s.id)).toEqual([one.id])
     expect(reviewRotation(db, safety, id, decision).decided).toBe(1)
+  })
+
+  it('shows a rotation in the review queue as one item, worst day first; a changed shift comes back alone', () => {
+    const { db, site, coord, safety, ana } = setup()
+    const id = createRotation(db, coord, body({ siteId: site.id, assigneeIds: [ana.id] }))
+    const before = Date.parse('2027-10-01T00:00:00Z')
+    const queue = buildReviewQueue(db, ReviewQueueQuerySchema.parse({}), before)
+    const waiting = loadRotationReply(db, id).shifts.filter(s => s.reviewState === 'pending')
+    expect(queue.items).toHaveLength(0)
+    expect(queue.rotations).toHaveLength(1)
+    const group = queue.rotations[0]!
+    expect(group.shiftIds.sort()).toEqual(waiting.map(s => s.id).sort())
+    const minutes = [...group.days.map(d => d.minutesBelow), ...group.moreDays.map(d => d.minutesBelow)]
+    expect(minutes).toEqual([...minutes].sort((a, b) => b - a))
+    expect(group.summary.worstMinutesBelow).toBe(Math.max(...waiting.map(s => s.lightCheck.minutesBelow)))
+    expect(group.days[0]!.weather).toBeDefined()
+    reviewRotation(db, safety, id, ReviewBodySchema.parse({ decision: 'approved', mitigations: ['check-in-interval:30'] }))
+    // the last day is in polar night: an hour earlier it is still short of daylight, so it waits again
+    const one = waiting.at(-1)!
+    updateShift(db, coord, one.id, { start: new Date(Date.parse(one.start) - HOUR_MS).toISOString() })
+    const after = buildReviewQueue(db, ReviewQueueQuerySchema.parse({}), before)
+    expect(after.rotations).toHaveLength(0)
+    expect(after.items.map(i => i.shift.id)).toEqual([one.id])
   })
 
   it('changes shifts from a date on and keeps earlier ones; cancels from a date on', () => {
