@@ -8,7 +8,8 @@ import { Body, MakeTime, Observer, SearchAltitude, SearchHourAngle } from 'astro
 import { fromZonedTime } from 'date-fns-tz'
 import { getTimes } from 'suncalc'
 import { pathToFileURL } from 'node:url'
-import { clearTimeZoneCache, computeLightDays, computeLightDaysMs } from '../server/core/light/index'
+import { computeLightDays, computeLightDaysMs } from '../server/core/light/index'
+import { clearTimeZoneCache } from '../server/core/time/zone-table'
 import { checkShiftLight } from '../server/core/light/check'
 import { LIGHT_REQUIREMENT_KINDS } from '../shared/light'
 

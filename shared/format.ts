@@ -1,4 +1,4 @@
-// Time, date, duration and coordinate formatting shared by every screen (LOOK.md: 24-hour clock,
+// Time, date, duration and coordinate formatting shared by every screen (docs/look.md: 24-hour clock,
 // dates like `Tue 14 Jan`, durations `3 h 25 min`). Pure: no imports at all, only Intl.
 
 const FORMATTERS = new Map<string, Intl.DateTimeFormat>()
@@ -28,16 +28,17 @@ export function toWallClock(value: string | number | Date, timeZone: string): st
 }
 
 /**
- * The instant (epoch ms) of a wall-clock time `YYYY-MM-DDTHH:mm[:ss]` in a zone, read as the server
- * reads shift times (server/utils/zoned.ts): in an autumn overlap the earlier instant; in a
+ * The instant (epoch ms) of a wall-clock time `YYYY-MM-DDTHH:mm[:ss]` in a zone, by the server's rule
+ * (server/core/time/zone-table.ts, tested to agree): in an overlap the earlier instant; in a
  * spring-forward gap the offset in force before the gap, so 02:30 in a 02:00→03:00 gap is 03:30.
  */
 export function fromWallClock(wall: string, timeZone: string): number {
   const w = wall.length === 16 ? `${wall}:00` : wall
   const asUtc = Date.parse(`${w}Z`)
-  // the offsets in force half a day either side: one of them reads this wall clock, unless it is in a gap
-  const before = zoneOffsetMinutes(asUtc - 43_200_000, timeZone)
-  const after = zoneOffsetMinutes(asUtc + 43_200_000, timeZone)
+  // the offsets in force 30 h either side (every zone is within 14 h of UTC): one of them reads this
+  // wall clock, unless it is in a gap
+  const before = zoneOffsetMinutes(asUtc - 108_000_000, timeZone)
+  const after = zoneOffsetMinutes(asUtc + 108_000_000, timeZone)
   const matches = [...new Set([before, after])].map(o => asUtc - o * 60_000)
     .filter(ms => toWallClock(ms, timeZone) === w).sort((a, b) => a - b)
   return matches[0] ?? asUtc - before * 60_000

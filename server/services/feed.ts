@@ -15,7 +15,8 @@ import { createHash, createHmac, randomBytes } from 'node:crypto'
 import { eq } from 'drizzle-orm'
 import ical, { ICalEventStatus, ICalEventTransparency } from 'ical-generator'
 import { people, settings, sites, type Person, type Site } from '../db/schema'
-import { addDays, localDateIn } from '../../shared/format'
+import { addDays } from '../../shared/format'
+import { localDateOf } from '../core/time/zone-table'
 import type { AppDatabase } from '../utils/db'
 import { describeCrewShift, loadPersonShifts } from './crew-day'
 import { computeLightDaysMs } from '../core/light/index'
@@ -136,7 +137,7 @@ function addShiftEvents(db: AppDatabase, calendar: ReturnType<typeof ical>, pers
 }
 
 function addSunEvents(calendar: ReturnType<typeof ical>, site: Site, nowMs: number) {
-  const from = localDateIn(nowMs, site.timezone)
+  const from = localDateOf(nowMs, site.timezone)
   const days = computeLightDaysMs({ latitude: site.latitude, longitude: site.longitude, timezone: site.timezone, from, to: addDays(from, FEED_SUN_DAYS - 1) })
   const geo = { title: site.name, geo: { lat: site.latitude, lon: site.longitude } }
   for (const day of days) {

@@ -5,7 +5,8 @@
 // repeated announcement sends nothing twice. Explicit imports only, so unit tests can run it.
 import { and, eq, inArray, sql } from 'drizzle-orm'
 import { people, reviews, shifts, sites, type Person, type Shift, type Site } from '../db/schema'
-import { formatDate, formatDuration, localDateIn } from '../../shared/format'
+import { formatDate, formatDuration } from '../../shared/format'
+import { localDateOf } from '../core/time/zone-table'
 import { renderShiftNoticeMail, type ShiftNoticeChange } from '../../emails/shift-notice'
 import { renderReviewNeededMail } from '../../emails/review-needed'
 import type { AppDatabase } from '../utils/db'
@@ -31,7 +32,7 @@ function describeForPerson(ctx: NoticeContext, person: Person) {
   const zone = resolveDisplayZone(person.displayZone, ctx.site.timezone)
   const review = loadLatestReviews(ctx.db, [ctx.row]).get(ctx.row.id) ?? null
   const shift = describeCrewShift({ row: ctx.row, site: ctx.site, zone, personId: person.id, assignees: ctx.assignees, review, forecast: NO_FORECAST, observations: [] })
-  return { shift, dateLabel: formatDate(localDateIn(ctx.row.startAt, zone)) }
+  return { shift, dateLabel: formatDate(localDateOf(ctx.row.startAt.getTime(), zone)) }
 }
 
 function queueAssigneeNotice(ctx: NoticeContext, person: Person, change: ShiftNoticeChange): number {

@@ -5,13 +5,13 @@
 // an updated reminder. Explicit imports only, so unit tests can run it on a fresh database.
 import { and, eq, gte, inArray, isNull, like, lt, ne } from 'drizzle-orm'
 import { messages, people, shiftAssignees, shifts, sites, type Person, type Shift, type Site } from '../db/schema'
-import { addDays, formatDate, toWallClock } from '../../shared/format'
+import { addDays, formatDate } from '../../shared/format'
 import { renderReminderMail, type ReminderSiteProps } from '../../emails/reminder'
 import type { AppDatabase } from '../utils/db'
 import { buildCrewSiteView, type CrewSiteView } from './crew-day'
 import { deliverOutboxMessage, enqueueOutboxMessage, hasOutboxMessage, type DeliveryOutcome } from './outbox'
 import type { MailSender } from '../adapters/mail'
-import { localMidnightMs } from '../core/time/zoned'
+import { localMidnightMs, wallClockOf } from '../core/time/zone-table'
 import { nowMs as clockNowMs } from '../core/time/clock'
 
 export const REMINDER_KIND = 'reminder'
@@ -139,7 +139,7 @@ export async function runRemindersForDate(db: AppDatabase, date: string, options
 /** The (site, date) pairs whose reminders are due at an instant: the site's local hour has reached its reminderHour, for the next local day. */
 export function findDueReminderTargets(db: AppDatabase, nowMs: number): { siteId: number, date: string }[] {
   return db.select().from(sites).where(isNull(sites.archivedAt)).all().flatMap((site) => {
-    const wall = toWallClock(nowMs, site.timezone)
+    const wall = wallClockOf(nowMs, site.timezone)
     const hour = Number(wall.slice(11, 13))
     return hour >= site.reminderHour ? [{ siteId: site.id, date: addDays(wall.slice(0, 10), 1) }] : []
   })

@@ -1,7 +1,8 @@
 // The light engine's own guarantees (partition of every local day, time zones, validation) and the
 // published or common-practice facts it must reproduce. Outside sources are named beside each check.
 import { describe, expect, it } from 'vitest'
-import { computeLightDays, computeLightDaysMs, computeLightPeriodsInRange, isValidTimeZone, shiftLocalDate } from '../../server/core/light/index'
+import { computeLightDays, computeLightDaysMs, computeLightPeriodsInRange } from '../../server/core/light/index'
+import { isValidTimeZone, shiftLocalDate } from '../../server/core/time/zone-table'
 import { BAND_KINDS, BAND_LOWER_ALTITUDE_DEG, type LightDayMs } from '../../shared/light'
 
 const HOUR_MS = 3_600_000

@@ -2,7 +2,8 @@
 // and its meridian passages (SearchHourAngle) with unrefracted altitude for polar night and midnight sun.
 import { Seasons } from 'astronomy-engine'
 import { describe, expect, it } from 'vitest'
-import { computeLightDaysMs, shiftLocalDate } from '../../server/core/light/index'
+import { computeLightDaysMs } from '../../server/core/light/index'
+import { shiftLocalDate } from '../../server/core/time/zone-table'
 import { computeSeasonInstants, computeSeasons, findNextTransitions } from '../../server/core/light/seasons'
 import { referenceAzimuth, referenceDayExtremesByHourAngle } from './reference/sun-reference'
 

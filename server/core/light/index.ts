@@ -27,6 +27,15 @@ import {
   sampleSunPosition,
   solveRootNearGuess
 } from '../sun/position'
+import {
+  buildZoneTimeline,
+  findZoneWallInstant,
+  formatUtcDate,
+  formatWithTimeline,
+  isValidTimeZone,
+  parseLocalDateToWallMs,
+  type ZoneTimeline
+} from '../time/zone-table'
 
 const MINUTE_MS = 60_000
 const HOUR_MS = 3_600_000
@@ -305,212 +314,6 @@ export function computeLightPeriodsInRange(latitude: number, longitude: number, 
 }
 
 // ---------------------------------------------------------------------------------------------
-// Time zones. Offsets come from Intl (the IANA database bundled with Node). Intl is slow (~2 µs a
-// call), so each zone's offset changes are found once per UTC month — one probe a day, then a bisection
-// to the second where the offset differs — and cached; local midnights and ISO strings are then pure
-// arithmetic. A zone that changed its offset twice within 24 h would be seen as one change or none;
-// we know of no such case in the tz data for the years accepted here (1901–2149).
-
-interface ZoneMonth {
-  startOffsetMs: number
-  /** Instants at which the offset changes, with the offset from then on. */
-  changes: { ms: number, offsetMs: number }[]
-}
-
-interface ZoneTimeline {
-  /** Segment i runs from starts[i] (−∞ for i = 0) to starts[i + 1] with offsets[i]. */
-  starts: number[]
-  offsets: number[]
-}
-
-const ZONE_FORMATTERS = new Map<string, Intl.DateTimeFormat>()
-const VALID_ZONES = new Set<string>()
-const ZONE_MONTHS = new Map<string, ZoneMonth>()
-const MAX_CACHED_ZONE_MONTHS = 20_000
-const ZONE_PROBE_DATE = new Date(0)
-const WALL_CLOCK_RE = /^(\d+)\/(\d+)\/(\d+),? (\d+):(\d+):(\d+)$/
-
-/** True for an IANA time zone name Intl knows (e.g. Europe/Oslo, UTC, Etc/GMT+2); false for offsets like +02:00. */
-export function isValidTimeZone(tz: string): boolean {
-  if (typeof tz !== 'string' || tz.length === 0 || tz.length > 64) return false
-  if (VALID_ZONES.has(tz)) return true
-  // Newer Intl versions accept bare offsets; those are not IANA zones and carry no daylight-saving rules.
-  if (/^[+-]/.test(tz) || /\s/.test(tz)) return false
-  try {
-    new Intl.DateTimeFormat('en-US', { timeZone: tz })
-  } catch {
-    return false
-  }
-  if (VALID_ZONES.size < 1_000) VALID_ZONES.add(tz)
-  return true
-}
-
-function zoneFormatter(zone: string): Intl.DateTimeFormat {
-  let formatter = ZONE_FORMATTERS.get(zone)
-  if (!formatter) {
-    if (!isValidTimeZone(zone)) throw new RangeError(`timezone must be an IANA time zone name, got "${zone}"`)
-    formatter = new Intl.DateTimeFormat('en-US', {
-      timeZone: zone, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric',
-      hour: 'numeric', minute: 'numeric', second: 'numeric'
-    })
-    ZONE_FORMATTERS.set(zone, formatter)
-  }
-  return formatter
-}
-
-function probeZoneOffsetMs(zone: string, ms: number): number {
-  const whole = Math.floor(ms / 1000) * 1000
-  ZONE_PROBE_DATE.setTime(whole)
-  const match = WALL_CLOCK_RE.exec(zoneFormatter(zone).format(ZONE_PROBE_DATE))
-  if (!match) throw new RangeError(`cannot read the wall clock of ${zone}`)
-  const [, mo, d, y, h, mi, s] = match.map(Number) as number[]
-  return Date.UTC(y!, mo! - 1, d!, h!, mi!, s!) - whole
-}
-
-// The second at which the offset switches from its value at lo to its value at hi (lo < hi).
-function bisectZoneChange(zone: string, lo: number, hi: number, loOffset: number): number {
-  while (hi - lo > 1000) {
-    const mid = Math.floor((lo + hi) / 2000) * 1000
-    if (mid <= lo) break
-    if (probeZoneOffsetMs(zone, mid) === loOffset) lo = mid
-    else hi = mid
-  }
-  return hi
-}
-
-// Offset changes of a zone within one UTC calendar month (months index from year 0), probed daily.
-function loadZoneMonth(zone: string, monthIndex: number): ZoneMonth {
-  const key = `${zone}|${monthIndex}`
-  const cached = ZONE_MONTHS.get(key)
-  if (cached) return cached
-  const startMs = Date.UTC(Math.floor(monthIndex / 12), monthIndex % 12, 1)
-  const endMs = Date.UTC(Math.floor(monthIndex / 12), monthIndex % 12 + 1, 1)
-  const startOffsetMs = probeZoneOffsetMs(zone, startMs)
-  const changes: ZoneMonth['changes'] = []
-  let prevMs = startMs
-  let prevOffset = startOffsetMs
-  while (prevMs < endMs) {
-    const ms = Math.min(prevMs + DAY_MS, endMs)
-    const offset = probeZoneOffsetMs(zone, ms)
-    if (offset !== prevOffset) changes.push({ ms: bisectZoneChange(zone, prevMs, ms, prevOffset), offsetMs: offset })
-    prevMs = ms
-    prevOffset = offset
-  }
-  if (ZONE_MONTHS.size >= MAX_CACHED_ZONE_MONTHS) ZONE_MONTHS.clear()
-  const month = { startOffsetMs, changes }
-  ZONE_MONTHS.set(key, month)
-  return month
-}
-
-function monthIndexOf(ms: number): number {
-  const date = new Date(ms)
-  return date.getUTCFullYear() * 12 + date.getUTCMonth()
-}
-
-function buildZoneTimeline(zone: string, fromMs: number, toMs: number): ZoneTimeline {
-  const first = monthIndexOf(fromMs)
-  const last = monthIndexOf(toMs)
-  const starts = [-Infinity]
-  const offsets = [loadZoneMonth(zone, first).startOffsetMs]
-  for (let m = first; m <= last; m++) {
-    for (const change of loadZoneMonth(zone, m).changes) {
-      if (change.offsetMs === offsets[offsets.length - 1]) continue
-      starts.push(change.ms)
-      offsets.push(change.offsetMs)
-    }
-  }
-  return { starts, offsets }
-}
-
-function zoneOffsetAt(timeline: ZoneTimeline, ms: number): number {
-  let i = timeline.starts.length - 1
-  while (i > 0 && timeline.starts[i]! > ms) i--
-  return timeline.offsets[i]!
-}
-
-// First instant at which the zone's wall clock shows at least wallMs (a local midnight written as UTC).
-// In a spring-forward gap over midnight that is the change itself; when midnight happens twice, the first.
-function findZoneWallInstant(timeline: ZoneTimeline, wallMs: number): number {
-  let best = Infinity
-  for (let i = 0; i < timeline.starts.length; i++) {
-    const candidate = Math.max(timeline.starts[i]!, wallMs - timeline.offsets[i]!)
-    const next = i + 1 < timeline.starts.length ? timeline.starts[i + 1]! : Infinity
-    if (candidate < next && candidate < best) best = candidate
-  }
-  return best
-}
-
-const PAD2 = Array.from({ length: 100 }, (_, i) => String(i).padStart(2, '0'))
-
-// Proleptic Gregorian date of a day count since 1970-01-01 (H. Hinnant, "chrono-compatible low-level date algorithms").
-function civilFromDays(days: number): [number, number, number] {
-  const z = days + 719468
-  const era = Math.floor(z / 146097)
-  const doe = z - era * 146097
-  const yoe = Math.floor((doe - Math.floor(doe / 1460) + Math.floor(doe / 36524) - Math.floor(doe / 146096)) / 365)
-  const doy = doe - (365 * yoe + Math.floor(yoe / 4) - Math.floor(yoe / 100))
-  const mp = Math.floor((5 * doy + 2) / 153)
-  const d = doy - Math.floor((153 * mp + 2) / 5) + 1
-  const m = mp < 10 ? mp + 3 : mp - 9
-  return [yoe + era * 400 + (m <= 2 ? 1 : 0), m, d]
-}
-
-function formatUtcDate(wallMs: number): string {
-  const [y, m, d] = civilFromDays(Math.floor(wallMs / DAY_MS))
-  return `${y}-${PAD2[m]}-${PAD2[d]}`
-}
-
-const OFFSET_STRINGS = new Map<number, string>()
-
-function formatOffset(offsetMs: number): string {
-  let text = OFFSET_STRINGS.get(offsetMs)
-  if (text === undefined) {
-    const minutes = Math.round(offsetMs / MINUTE_MS)
-    const abs = Math.abs(minutes)
-    text = `${minutes < 0 ? '-' : '+'}${PAD2[Math.floor(abs / 60)]}:${PAD2[abs % 60]}`
-    OFFSET_STRINGS.set(offsetMs, text)
-  }
-  return text
-}
-
-// The date part of the last formatted instant: most instants of a day share it.
-const DATE_PREFIX = { days: NaN, text: '' }
-
-function formatWithTimeline(timeline: ZoneTimeline, ms: number): string {
-  const whole = Math.round(ms / 1000) * 1000
-  const offsetMs = zoneOffsetAt(timeline, whole)
-  const local = whole + offsetMs
-  const days = Math.floor(local / DAY_MS)
-  if (days !== DATE_PREFIX.days) {
-    DATE_PREFIX.days = days
-    DATE_PREFIX.text = formatUtcDate(local) + 'T'
-  }
-  const secs = Math.round((local - days * DAY_MS) / 1000)
-  return DATE_PREFIX.text + PAD2[Math.floor(secs / 3600)] + ':' + PAD2[Math.floor(secs / 60) % 60] + ':' + PAD2[secs % 60] + formatOffset(offsetMs)
-}
-
-/** An instant as ISO 8601 with the zone's offset at that instant, to the second (e.g. 2026-12-01T09:12:34+01:00). */
-export function formatInstantInZone(ms: number, zone: string): string {
-  return formatWithTimeline(buildZoneTimeline(zone, ms - DAY_MS, ms + DAY_MS), ms)
-}
-
-/** Parses a YYYY-MM-DD local date to its midnight written as a UTC instant; throws naming the field. */
-export function parseLocalDateToWallMs(value: string, field: string): number {
-  const match = /^(\d{4})-(\d{2})-(\d{2})$/.exec(value)
-  const wall = match ? Date.UTC(Number(match[1]), Number(match[2]) - 1, Number(match[3])) : NaN
-  if (!match || formatUtcDate(wall) !== value) throw new RangeError(`${field} must be a date as YYYY-MM-DD, got "${value}"`)
-  const year = Number(match[1])
-  // suncalc's ΔT fit and the position series are meant for roughly 1900–2150.
-  if (year < 1901 || year > 2149) throw new RangeError(`${field} must be between 1901 and 2149`)
-  return wall
-}
-
-/** Adds whole days to a YYYY-MM-DD local date. */
-export function shiftLocalDate(date: string, days: number): string {
-  return formatUtcDate(parseLocalDateToWallMs(date, 'date') + days * DAY_MS)
-}
-
-// ---------------------------------------------------------------------------------------------
 // Cutting the trace into local days.
 
 interface DayCursor {
@@ -702,9 +505,4 @@ function formatLightDay(day: LightDayMs, timeline: ZoneTimeline): LightDay {
     civilLightMinutes: day.civilLightMinutes,
     status: day.status
   }
-}
-
-/** Drops the cached time-zone offset tables (for benchmarks that measure cold starts). */
-export function clearTimeZoneCache() {
-  ZONE_MONTHS.clear()
 }

@@ -3,7 +3,8 @@
 // Built on the light engine's local days; pure TypeScript, no framework imports.
 import type { LightDayMs, LightTransitions } from '../../../shared/light'
 import type { BoardTransition, LightTrend, RunupDay, RunupSummary } from '../../../shared/outlook'
-import { computeLightDaysMs, shiftLocalDate } from './index'
+import { computeLightDaysMs } from './index'
+import { shiftLocalDate } from '../time/zone-table'
 
 /** Days searched ahead: more than a year, so a polar night that began just before `from` still shows its end. */
 export const RUNUP_HORIZON_DAYS = 400

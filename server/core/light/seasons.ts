@@ -9,7 +9,8 @@ import {
   type SeasonSummary,
   type SunriseBearing
 } from '../../../shared/light'
-import { computeLightDaysMs, formatInstantInZone, shiftLocalDate } from './index'
+import { computeLightDaysMs } from './index'
+import { formatInstantInZone, shiftLocalDate } from '../time/zone-table'
 import { sampleSunDeclination, solveRootBrent } from '../sun/position'
 
 const DAY_MS = 86_400_000

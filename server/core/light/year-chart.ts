@@ -3,7 +3,8 @@
 // zone and the solstices and equinoxes. Built on the light engine; pure TypeScript, no framework imports.
 import type { LightDayMs, SeasonSummary } from '../../../shared/light'
 import type { AzimuthExtreme, ClockChange, CompactPeriod, SeasonMarker, YearChartData, YearChartDay } from '../../../shared/outlook'
-import { computeLightDaysMs, formatInstantInZone } from './index'
+import { computeLightDaysMs } from './index'
+import { formatInstantInZone } from '../time/zone-table'
 import { computeSeasonInstants } from './seasons'
 
 const MINUTE_MS = 60_000

@@ -3,7 +3,8 @@
 // hours from the sun's highest point, which surprises people planning around light.
 // Pure: no framework or database imports.
 import lookupZoneAt from '@photostructure/tz-lookup'
-import { formatDuration, zoneOffsetMinutes } from '../../../shared/format'
+import { formatDuration } from '../../../shared/format'
+import { zoneOffsetMinutes } from './zone-table'
 import { nowMs as clockNowMs } from './clock'
 
 /** Beyond this gap between zone time and local mean solar time, the suggestion carries a warning. */
