@@ -1,12 +1,20 @@
 // Safety review decisions and the review queue, on the database. A decision, the shift's review
 // state and its audit entry are written in one transaction; the queue is shaped by review-queue.ts.
-import { and, asc, desc, eq, gt, isNull, sql } from 'drizzle-orm'
+import { and, asc, desc, eq, gt, inArray, isNull, ne, sql } from 'drizzle-orm'
 import { z } from 'zod'
-import { people, reviews, shifts, sites, type Shift, type Site } from '../db/schema'
+import { auditLog, people, reviews, shiftAssignees, shifts, sites, type Shift, type Site } from '../db/schema'
 import {
   CHECK_IN_MINUTES, CHECK_IN_PREFIX, MAX_MITIGATION_TEXT, MAX_REVIEW_NOTE, MITIGATION_KEYS, OTHER_MITIGATION_PREFIX,
-  REVIEW_DECISIONS, REVIEW_QUEUE_STATES, type ReviewQueueState
+  REVIEW_DECISIONS, REVIEW_QUEUE_STATES, describeMitigation, describeReviewReason, type ReviewQueueState, type ReviewReasonDetail, type ReviewShiftSnapshot
 } from '../../shared/review'
+import { formatDay, formatTimeRange } from '../../shared/format'
+import { localDateOf } from '../core/time/zone-table'
+import { renderReviewOutcomeMail } from '../../emails/review-outcome'
+import { computeReviewReasons, type ReviewWindow } from '../core/review/reasons'
+import { computeLightPeriodsInRange } from '../core/light/index'
+import { formatZonedIso } from '../core/time/zoned'
+import { deliverOutboxMessage, enqueueOutboxMessage } from './outbox'
+import { loadWorkRules } from './work-rules'
 import type { AppDatabase } from '../utils/db'
 import { recordAudit } from './audit'
 import { buildRotationQueueGroups, splitRotationRows } from './rotation-queue'
@@ -62,8 +70,8 @@ export const ReviewBodySchema = z.object({
     if (typeof normal !== 'string') ctx.addIssue({ code: 'custom', path: ['mitigations', i], message: normal.message })
     else if (!mitigations.includes(normal)) mitigations.push(normal)
   })
-  // an approval without mitigations is allowed by the API (the contract takes any list); the
-  // decision form asks for at least one
+  // a decision needs substance (DESIGN.md): an approval names what makes the work acceptable
+  if (body.decision === 'approved' && !body.mitigations.length) ctx.addIssue({ code: 'custom', path: ['mitigations'], message: 'an approval needs at least one mitigation' })
   if (body.decision === 'rejected' && !body.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'a rejection needs a reason' })
   if (body.decision === 'changes-requested' && !body.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'say which changes are needed' })
   return { decision: body.decision, mitigations, note: body.note, version: body.version }
@@ -71,28 +79,156 @@ export const ReviewBodySchema = z.object({
 export type ReviewInput = z.output<typeof ReviewBodySchema>
 
 /**
- * Records a decision on a flagged shift: the review row (on the shift's current version), the shift's
- * review state and the audit entry, in one transaction. A shift that is not flagged needs no review:
- * that is a 409 (the request is well formed, the shift's state does not allow it, and may change).
+ * Records a decision on a shift waiting for review: the review row (on the shift's current version,
+ * with a snapshot of what was decided), the shift's review state, the audit entry and, on a
+ * rejection or a send-back, the notice to the coordinators, in one transaction. A shift with no
+ * review reason needs no decision: that is a 409 (the request is well formed, the shift's state does
+ * not allow it, and may change).
  */
-export function recordReviewDecision(db: AppDatabase, actor: { id: number }, shiftId: number, input: ReviewInput) {
-  return db.transaction((tx) => {
+export function recordReviewDecision(db: AppDatabase, actor: { id: number }, shiftId: number, input: ReviewInput, options: { baseUrl?: string | null } = {}) {
+  const result = db.transaction((tx) => {
     const shift = tx.select().from(shifts).where(eq(shifts.id, shiftId)).get()
     if (!shift) throw notFound('Shift')
     if (shift.cancelledAt) throw conflict('This shift is cancelled: there is nothing to review.', { reviewState: shift.reviewState })
     if (input.version !== undefined && input.version !== shift.version) {
       throw conflict('This shift changed since you opened it. Reload it and review what is planned now.', { currentVersion: shift.version })
     }
-    if (!shift.flagged || shift.reviewState === 'not-needed') {
-      throw conflict('This shift is not flagged: no minute of it is below its light requirement, so it needs no review.', { reviewState: shift.reviewState })
+    if (shift.reviewState === 'not-needed') {
+      throw conflict('This shift needs no review: no reason (light, cold, lone, long) holds for it.', { reviewState: shift.reviewState })
     }
-    const row = tx.insert(reviews).values({ shiftId, reviewerId: actor.id, decision: input.decision, mitigations: input.mitigations, note: input.note, shiftVersion: shift.version }).returning().get()
+    const snapshot = takeShiftSnapshot(tx, shift)
+    const row = tx.insert(reviews).values({ shiftId, reviewerId: actor.id, decision: input.decision, mitigations: input.mitigations, note: input.note, shiftVersion: shift.version, snapshot }).returning().get()
     tx.update(shifts).set({ reviewState: input.decision }).where(eq(shifts.id, shiftId)).run()
     recordAudit(tx, actor.id, 'shift.review', 'shift', shiftId, {
       reviewId: row.id, decision: input.decision, mitigations: input.mitigations, note: input.note,
       shiftVersion: shift.version, previousState: shift.reviewState
     })
-    return { reviewId: row.id, shiftId, reviewState: input.decision, shiftVersion: shift.version }
+    const messageIds = input.decision === 'approved' ? [] : queueReviewOutcomeMail(tx, { shift, reviewId: row.id, reviewerId: actor.id, input, baseUrl: options.baseUrl ?? null })
+    return { reviewId: row.id, shiftId, reviewState: input.decision, shiftVersion: shift.version, messageIds }
+  })
+  // sent after the commit; a failed send stays in the outbox and the timer retries it
+  for (const id of result.messageIds) {
+    deliverOutboxMessage(db, id).catch(err => console.error('[gloamline] review outcome mail failed', err))
+  }
+  const { messageIds: _sent, ...reply } = result
+  return reply
+}
+
+type Tx = Parameters<Parameters<AppDatabase['transaction']>[0]>[0]
+
+/** What a shift is as decided: its times, site, light need, travel and people. */
+export function takeShiftSnapshot(tx: Pick<AppDatabase, 'select'>, shift: Shift): ReviewShiftSnapshot {
+  const site = tx.select({ name: sites.name, timezone: sites.timezone }).from(sites).where(eq(sites.id, shift.siteId)).get()!
+  const names = (loadAssignees(tx, [shift.id]).get(shift.id) ?? []).map(a => a.name)
+  return {
+    title: shift.title,
+    siteName: site.name,
+    start: formatZonedIso(shift.startAt.getTime(), site.timezone),
+    end: formatZonedIso(shift.endAt.getTime(), site.timezone),
+    light: shift.light,
+    travelMinutes: shift.travelMinutes ?? 0,
+    assignees: names
+  }
+}
+
+/**
+ * Who hears of a rejection or a send-back: the active coordinators who created or changed the shift,
+ * else every active coordinator (the shift came from an import or a person since deactivated).
+ */
+export function findShiftCoordinators(tx: Pick<AppDatabase, 'select'>, shift: Pick<Shift, 'id' | 'createdBy'>) {
+  const actorIds = tx.select({ id: auditLog.actorId }).from(auditLog)
+    .where(and(eq(auditLog.entity, 'shift'), eq(auditLog.entityId, shift.id), inArray(auditLog.action, ['shift.create', 'shift.update']))).all()
+    .map(r => r.id).filter((id): id is number => id !== null)
+  const ids = [...new Set([shift.createdBy, ...actorIds].filter((id): id is number => id !== null))]
+  const active = and(eq(people.role, 'coordinator'), eq(people.active, true))
+  const own = ids.length ? tx.select().from(people).where(and(active, inArray(people.id, ids))).all() : []
+  return own.length ? own : tx.select().from(people).where(active).all()
+}
+
+function queueReviewOutcomeMail(tx: Tx, input: { shift: Shift, reviewId: number, reviewerId: number, input: ReviewInput, baseUrl: string | null }): number[] {
+  const { shift } = input
+  const decision = input.input.decision as 'rejected' | 'changes-requested'
+  const site = tx.select().from(sites).where(eq(sites.id, shift.siteId)).get()!
+  const reviewer = tx.select({ name: people.name }).from(people).where(eq(people.id, input.reviewerId)).get()
+  const startIso = formatZonedIso(shift.startAt.getTime(), site.timezone)
+  const date = localDateOf(Date.parse(startIso), site.timezone)
+  const shiftUrl = input.baseUrl ? `${input.baseUrl}/plan?site=${site.id}&date=${date}&shift=${shift.id}` : null
+  return findShiftCoordinators(tx, shift).map((person) => {
+    const mail = renderReviewOutcomeMail({
+      personName: person.name, decision, reviewerName: reviewer?.name ?? 'Safety review', note: input.input.note,
+      mitigations: input.input.mitigations.map(describeMitigation), shiftUrl,
+      shift: {
+        title: shift.title, siteName: site.name, dateLabel: formatDay(startIso, site.timezone),
+        span: formatTimeRange(startIso, formatZonedIso(shift.endAt.getTime(), site.timezone), site.timezone),
+        reasons: (shift.reviewReasons ?? []).map(r => describeReviewReason(r, site.timezone))
+      }
+    })
+    return enqueueOutboxMessage(tx, { ...mail, dedupeKey: `review-outcome:${input.reviewId}:${person.id}`, kind: 'review-outcome', personId: person.id, toEmail: person.email, meta: { shiftId: shift.id, reviewId: input.reviewId, decision } }).id
+  })
+}
+
+/** The inputs of a shift's review assessment: where, when, its light check and how many people. */
+export interface ReviewAssessmentInput {
+  site: Pick<Site, 'id' | 'latitude' | 'longitude' | 'timezone'>
+  /** The window the light, cold and lone checks cover: the shift, or its whole outing. */
+  window: ReviewWindow
+  startMs: number
+  endMs: number
+  lightCheck: { flagged: boolean, minutesBelow: number, requirement: Shift['light'] }
+  assigneeCount: number
+  nowMs?: number
+}
+
+/** Every review reason of a shift (light, cold, lone, long), from the work rules and the site's weather. */
+export function assessShiftReview(db: Pick<AppDatabase, 'select'>, input: ReviewAssessmentInput): ReviewReasonDetail[] {
+  const rules = loadWorkRules(db)
+  const { fromMs, toMs } = input.window
+  const forecast = loadSiteForecast(db, input.site.id, input.nowMs ?? clockNowMs())
+  const readings = loadSiteObservations(db, input.site.id, fromMs - 3 * HOUR_MS, toMs)
+  const bands = computeLightPeriodsInRange(input.site.latitude, input.site.longitude, fromMs, toMs)
+  const weather = describeWindowWeather(forecast, readings, { startMs: fromMs, endMs: toMs, bands, timezone: input.site.timezone })
+  const cold = weather.figures && weather.basis !== 'none' ? { ...weather.figures, basis: weather.basis } : null
+  return computeReviewReasons({
+    latitude: input.site.latitude,
+    longitude: input.site.longitude,
+    window: input.window,
+    shiftStartMs: input.startMs,
+    shiftEndMs: input.endMs,
+    lightCheck: input.lightCheck,
+    assigneeCount: input.assigneeCount,
+    cold,
+    rules
+  })
+}
+
+/**
+ * Re-reads the review reasons of a site's live, upcoming shifts after its weather changed (a new
+ * forecast or readings): a shift that now meets the cold limit and needed no review goes to review.
+ * A shift already waiting or decided keeps its state; its reasons are brought up to date.
+ */
+export function reassessSiteReviewReasons(db: AppDatabase, siteId: number, nowMs = clockNowMs()): number[] {
+  const site = db.select().from(sites).where(eq(sites.id, siteId)).get()
+  if (!site) return []
+  return db.transaction((tx) => {
+    const rows = tx.select().from(shifts).where(and(eq(shifts.siteId, siteId), isNull(shifts.cancelledAt), gt(shifts.endAt, new Date(nowMs)))).all()
+    const counts = new Map<number, number>()
+    if (rows.length) {
+      for (const r of tx.select({ shiftId: shiftAssignees.shiftId }).from(shiftAssignees).where(inArray(shiftAssignees.shiftId, rows.map(r => r.id))).all()) {
+        counts.set(r.shiftId, (counts.get(r.shiftId) ?? 0) + 1)
+      }
+    }
+    const reopened: number[] = []
+    for (const row of rows) {
+      const reasons = assessShiftReview(tx, {
+        site, window: { fromMs: row.startAt.getTime(), toMs: row.endAt.getTime() }, startMs: row.startAt.getTime(), endMs: row.endAt.getTime(),
+        lightCheck: { flagged: row.flagged, minutesBelow: row.minutesBelow, requirement: row.light }, assigneeCount: counts.get(row.id) ?? 0, nowMs
+      })
+      if (JSON.stringify(reasons) === JSON.stringify(row.reviewReasons)) continue
+      const reviewState = row.reviewState === 'not-needed' && reasons.length ? 'pending' : row.reviewState
+      tx.update(shifts).set({ reviewReasons: reasons, reviewState }).where(eq(shifts.id, row.id)).run()
+      if (reviewState !== row.reviewState) reopened.push(row.id)
+    }
+    return reopened
   })
 }
 
@@ -107,11 +243,13 @@ export interface ReviewHistoryEntry {
   shiftVersion: number
   /** True while the shift is still the version the decision was made on. */
   current: boolean
+  /** The shift as decided (null for decisions recorded before snapshots were kept). */
+  snapshot: ReviewShiftSnapshot | null
 }
 
 /** Every decision on a shift, newest first. */
 export function listShiftReviews(db: Pick<AppDatabase, 'select'>, shift: Pick<Shift, 'id' | 'version'>): ReviewHistoryEntry[] {
-  return db.select({ id: reviews.id, decision: reviews.decision, mitigations: reviews.mitigations, note: reviews.note, reviewerId: reviews.reviewerId, reviewerName: people.name, at: reviews.createdAt, shiftVersion: reviews.shiftVersion })
+  return db.select({ id: reviews.id, decision: reviews.decision, mitigations: reviews.mitigations, note: reviews.note, reviewerId: reviews.reviewerId, reviewerName: people.name, at: reviews.createdAt, shiftVersion: reviews.shiftVersion, snapshot: reviews.snapshot })
     .from(reviews).innerJoin(people, eq(people.id, reviews.reviewerId))
     .where(eq(reviews.shiftId, shift.id)).orderBy(desc(reviews.id)).all()
     .map(r => ({ ...r, at: r.at.toISOString(), current: r.shiftVersion === shift.version }))
@@ -158,7 +296,8 @@ function shapeOneRow(row: Shift, site: Site, extras: RowExtras, weather: { forec
 }
 
 function queueConditions(query: Pick<ReviewQueueQuery, 'siteId' | 'scope'>, nowMs: number) {
-  const conditions = [isNull(shifts.cancelledAt), eq(shifts.flagged, true)]
+  // every shift with a review reason, not only those below their light
+  const conditions = [isNull(shifts.cancelledAt), ne(shifts.reviewState, 'not-needed')]
   if (query.siteId) conditions.push(eq(shifts.siteId, query.siteId))
   if (query.scope === 'upcoming') conditions.push(gt(shifts.endAt, new Date(nowMs)))
   return conditions
@@ -202,8 +341,38 @@ export function buildReviewItem(db: AppDatabase, shiftId: number, nowMs = clockN
   const [item] = shapeShiftRows(db, [row], nowMs)
   const reason = row.cancelledAt
     ? 'This shift is cancelled.'
-    : !row.flagged
-        ? 'This shift is not flagged: no minute of it is below its light requirement, so it needs no review.'
-        : null
-  return { ...item!, reviewable: reason === null, notReviewableReason: reason, history: listShiftReviews(db, row) }
+    : row.reviewState === 'not-needed'
+      ? 'This shift needs no review: no reason (light, cold, lone, long) holds for it.'
+      : null
+  const history = listShiftReviews(db, row)
+  return { ...item!, reviewable: reason === null, notReviewableReason: reason, history, changes: describeChangesSinceDecision(db, row, history[0]) }
+}
+
+/** One field that changed since the last decision: its label and the old and new values in words. */
+export interface ReviewChange {
+  field: 'title' | 'site' | 'start' | 'end' | 'light' | 'travel' | 'people'
+  label: string
+  before: string
+  after: string
+}
+
+const CHANGE_LABELS: Record<ReviewChange['field'], string> = {
+  title: 'Task', site: 'Site', start: 'Start', end: 'End', light: 'Light needed', travel: 'Travel each way', people: 'People'
+}
+
+/** What changed between the latest decision and the shift now (empty while the decision is current). */
+export function describeChangesSinceDecision(db: Pick<AppDatabase, 'select'>, row: Shift, latest: ReviewHistoryEntry | undefined): ReviewChange[] {
+  if (!latest || latest.current || !latest.snapshot) return []
+  const before = latest.snapshot
+  const now = takeShiftSnapshot(db, row)
+  const pairs: [ReviewChange['field'], string, string][] = [
+    ['title', before.title, now.title],
+    ['site', before.siteName, now.siteName],
+    ['start', before.start, now.start],
+    ['end', before.end, now.end],
+    ['light', before.light, now.light],
+    ['travel', `${before.travelMinutes} min`, `${now.travelMinutes} min`],
+    ['people', before.assignees.join(', ') || 'nobody', now.assignees.join(', ') || 'nobody']
+  ]
+  return pairs.filter(([, a, b]) => a !== b).map(([field, a, b]) => ({ field, label: CHANGE_LABELS[field], before: a, after: b }))
 }

@@ -1,6 +1,7 @@
 // The shift as every route replies with it (GET/POST/PATCH /api/shifts…), used by server and client
 // alike: one definition. Pure types: no Vue or Nitro.
 import type { LightRequirement } from '../light'
+import type { ReviewReason, ReviewReasonDetail } from '../review'
 
 export type ReviewState = 'not-needed' | 'pending' | 'approved' | 'rejected' | 'changes-requested'
 export type ReviewDecision = Exclude<ReviewState, 'not-needed' | 'pending'>
@@ -40,8 +41,14 @@ export interface ShiftReply {
   notes: string
   assigneeIds: number[]
   assignees: { id: number, name: string }[]
-  lightCheck: { requirement: LightRequirement, minutesBelow: number, flagged: boolean }
+  // minutes of travel each way; the light check covers the outing, checkedFrom to checkedTo (the
+  // server always sets all three; optional so that client fixtures of the first round still type)
+  travelMinutes?: number
+  lightCheck: { requirement: LightRequirement, minutesBelow: number, flagged: boolean, checkedFrom?: string, checkedTo?: string }
   reviewState: ReviewState
+  // why the shift needs a safety decision (empty when none), and the figure behind each reason
+  reviewReasons: ReviewReason[]
+  reviewReasonDetails: ReviewReasonDetail[]
   // the latest safety decision, if any (it may predate a change that reopened the shift)
   review: ShiftReview | null
   conflictOverride: string | null

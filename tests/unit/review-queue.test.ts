@@ -50,7 +50,9 @@ function shift(overrides: Partial<ShiftView> = {}): ShiftView {
     id: 1, siteId: 1, siteName: 'Invented site', timezone: ZONE, title: 'Invented task',
     start: '2026-12-14T09:00:00+01:00', end: '2026-12-14T13:00:00+01:00', light: 'daylight', notes: '',
     assigneeIds: [1, 2], assignees: [{ id: 1, name: 'A' }, { id: 2, name: 'B' }],
-    lightCheck: { requirement: 'daylight', minutesBelow: 90, flagged: true }, reviewState: 'pending',
+    travelMinutes: 0,
+    lightCheck: { requirement: 'daylight', minutesBelow: 90, flagged: true, checkedFrom: '2026-12-14T09:00:00+01:00', checkedTo: '2026-12-14T13:00:00+01:00' }, reviewState: 'pending',
+    reviewReasons: ['light'], reviewReasonDetails: [{ reason: 'light', minutesBelow: 90, requirement: 'daylight' }],
     review: null, conflictOverride: null, conflicts: [], version: 1, cancelled: false, ...overrides
   }
 }
