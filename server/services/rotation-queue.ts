@@ -32,6 +32,8 @@ export interface RotationQueueGroup {
   rotation: ReturnType<typeof describeRotation>
   /** Ids of the rotation's shifts in this review state: one decision covers them all. */
   shiftIds: number[]
+  /** The versions listed, sent back with the decision so that a shift changed since is left out. */
+  seen: { id: number, version: number }[]
   firstStart: string
   summary: { shifts: number, minutesBelow: number, worstMinutesBelow: number, daysShort: number }
   /** The worst days in full, worst first. */
@@ -76,6 +78,7 @@ export function buildRotationQueueGroups(db: Pick<AppDatabase, 'select'>, groups
     out.push({
       rotation: describeRotation(rotation, site),
       shiftIds: rows.map(r => r.id),
+      seen: rows.map(r => ({ id: r.id, version: r.version })),
       firstStart: formatZonedIso(first, site.timezone),
       summary: {
         shifts: rows.length,

@@ -223,18 +223,26 @@ export function cancelRotationFrom(db: AppDatabase, actor: Pick<User, 'id'>, id:
   return { cancelled }
 }
 
+/** The shift versions the reviewer saw (optional): a shift changed since is left waiting, on its own. */
+export const RotationReviewSeenSchema = z.object({
+  seen: z.array(z.object({ id: z.number().int().positive(), version: z.number().int().positive() }), { error: 'expected the shifts you saw, as { id, version }' }).max(1000).optional()
+})
+
 /**
  * One safety decision for every shift of the rotation still waiting (pending or sent back for
- * changes), each recorded as the shift service records a single decision, in one transaction.
+ * changes), each recorded as the shift service records a single decision, in one transaction. With
+ * `seen`, only the shifts the reviewer saw, at the version seen, are decided; others keep waiting.
  */
-export function reviewRotation(db: AppDatabase, actor: Pick<User, 'id'>, id: number, input: ReviewInput) {
+export function reviewRotation(db: AppDatabase, actor: Pick<User, 'id'>, id: number, input: ReviewInput, seen?: { id: number, version: number }[]) {
   return db.transaction((tx) => {
     requireRotation(tx, id)
-    const waiting = tx.select({ id: shifts.id }).from(shifts)
+    const waiting = tx.select({ id: shifts.id, version: shifts.version }).from(shifts)
       .where(and(eq(shifts.rotationId, id), isNull(shifts.cancelledAt), inArray(shifts.reviewState, ['pending', 'changes-requested'])))
       .orderBy(asc(shifts.startAt)).all()
-    for (const shift of waiting) recordReviewDecision(tx as unknown as AppDatabase, actor, shift.id, { ...input, version: undefined })
-    recordAudit(tx, actor.id, 'rotation.review', 'rotation', id, { decision: input.decision, shiftIds: waiting.map(s => s.id) })
-    return { decided: waiting.length, shiftIds: waiting.map(s => s.id) }
+    const seenVersion = seen ? new Map(seen.map(s => [s.id, s.version])) : null
+    const chosen = seenVersion ? waiting.filter(s => seenVersion.get(s.id) === s.version) : waiting
+    for (const shift of chosen) recordReviewDecision(tx as unknown as AppDatabase, actor, shift.id, { ...input, version: shift.version })
+    recordAudit(tx, actor.id, 'rotation.review', 'rotation', id, { decision: input.decision, shiftIds: chosen.map(s => s.id) })
+    return { decided: chosen.length, shiftIds: chosen.map(s => s.id), stillWaiting: waiting.length - chosen.length }
   })
 }

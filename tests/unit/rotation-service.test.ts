@@ -141,6 +141,19 @@ describe('a rotation on a database', () => {
     expect(after.items.map(i => i.shift.id)).toEqual([one.id])
   })
 
+  it('decides only the shifts at the versions the reviewer saw; one changed meanwhile keeps waiting', () => {
+    const { db, site, coord, safety } = setup()
+    const id = createRotation(db, coord, body({ siteId: site.id }))
+    const queue = buildReviewQueue(db, ReviewQueueQuerySchema.parse({}), Date.parse('2027-10-01T00:00:00Z'))
+    const seen = queue.rotations[0]!.seen
+    const changed = loadRotationReply(db, id).shifts.find(s => s.id === seen.at(-1)!.id)!
+    updateShift(db, coord, changed.id, { start: new Date(Date.parse(changed.start) - HOUR_MS).toISOString() })
+    const result = reviewRotation(db, safety, id, ReviewBodySchema.parse({ decision: 'approved', mitigations: ['portable-lighting'] }), seen)
+    expect(result.decided).toBe(seen.length - 1)
+    expect(result.stillWaiting).toBe(1)
+    expect(loadRotationReply(db, id).shifts.filter(s => s.reviewState === 'pending').map(s => s.id)).toEqual([changed.id])
+  })
+
   it('changes shifts from a date on and keeps earlier ones; cancels from a date on', () => {
     const { db, site, coord } = setup()
     const id = createRotation(db, coord, body({ siteId: site.id }))
