@@ -12,7 +12,8 @@ function failure(err: unknown): ShiftActionResult {
 function toBody(draft: ShiftDraft) {
   return {
     siteId: draft.siteId, title: draft.title, start: draft.start, end: draft.end, light: draft.light,
-    assigneeIds: draft.assigneeIds, notes: draft.notes, overrideReason: draft.overrideReason.trim() || undefined
+    assigneeIds: draft.assigneeIds, notes: draft.notes, overrideReason: draft.overrideReason.trim() || undefined,
+    travelMinutes: typeof draft.travelMinutes === 'number' ? draft.travelMinutes : undefined
   }
 }
 

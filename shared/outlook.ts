@@ -189,6 +189,8 @@ export interface SlotSearchResult {
   /** Days of the window with at least one slot, and days searched. */
   daysWithSlots: number
   daysSearched: number
+  /** Minutes of travel each way the slots allow for (the outing lies in the light). */
+  travelMinutes?: number
   rules: { minRestHours: number, maxShiftHours: number }
 }
 

@@ -2,6 +2,7 @@
 // light state. Pure: imports neither Vue nor Nitro.
 import type { BandKind, LightDay, LightRequirement } from './light'
 import { formatDuration } from './format'
+import { REVIEW_REASON_WORDS, REVIEW_STATE_WORDS, describeReviewReason } from './review'
 import type { ReviewState, ShiftConflict, ShiftConflictKind as ConflictKind, ShiftReply as ShiftItem } from './types/shift'
 
 export type { ReviewState, ShiftConflict, ShiftReply as ShiftItem } from './types/shift'
@@ -17,6 +18,8 @@ export interface SiteItem {
   timezone: string
   defaultLight: LightRequirement
   reminderHour?: number
+  // minutes of travel each way, the default for new shifts here
+  travelMinutes?: number
   notes: string
   archivedAt: string | number | null
 }
@@ -33,7 +36,8 @@ export interface SiteBody {
   notes: string
 }
 
-export interface PersonItem { id: number, name: string, email: string, role: Role, active: boolean }
+// email is null for a crew member looking at a colleague; pending: has not chosen a password yet
+export interface PersonItem { id: number, name: string, email: string | null, role: Role, active: boolean, pending?: boolean }
 export interface CrewItem { id: number, name: string, members: { id: number, name: string, role: Role }[] }
 
 /** The body of POST /api/shifts and /api/shifts/check. */
@@ -46,10 +50,13 @@ export interface ShiftDraft {
   assigneeIds: number[]
   notes: string
   overrideReason: string
+  // minutes of travel each way; null or absent: the site's default
+  travelMinutes?: number | null
 }
 
 export interface ShiftCheckReply {
-  lightCheck: { requirement: LightRequirement, minutesBelow: number, flagged: boolean }
+  travelMinutes?: number
+  lightCheck: { requirement: LightRequirement, minutesBelow: number, flagged: boolean, checkedFrom?: string, checkedTo?: string }
   bands: { kind: BandKind, start: string, end: string }[]
   conflicts: ShiftConflict[]
   timeNotes: string[]
@@ -91,13 +98,8 @@ export const BAND_WORDS: Record<BandKind, string> = {
   night: 'Night'
 }
 
-export const REVIEW_WORDS: Record<ReviewState, string> = {
-  'not-needed': 'No review needed',
-  'pending': 'Review pending',
-  'approved': 'Approved',
-  'rejected': 'Rejected',
-  'changes-requested': 'Changes requested'
-}
+/** One word per review state, the same on every screen, in mail, CSV and the feed (shared/review.ts). */
+export const REVIEW_WORDS: Record<ReviewState, string> = REVIEW_STATE_WORDS
 
 export const CONFLICT_WORDS: Record<ConflictKind, string> = {
   overlap: 'Overlapping shifts',
@@ -106,19 +108,35 @@ export const CONFLICT_WORDS: Record<ConflictKind, string> = {
   unavailable: 'Unavailable'
 }
 
-/** The light state of a shift in words: clear, flagged (N min below), or the safety decision. */
-export function describeLightState(shift: Pick<ShiftItem, 'lightCheck' | 'reviewState'>): LightState {
+type LightStateShift = Pick<ShiftItem, 'lightCheck' | 'reviewState'> & Partial<Pick<ShiftItem, 'reviewReasonDetails' | 'timezone' | 'review'>>
+
+/** The review reasons of a shift in words with their figures; for older replies, the light alone. */
+export function describeShiftReasons(shift: LightStateShift): string[] {
+  if (shift.reviewReasonDetails) return shift.reviewReasonDetails.map(r => describeReviewReason(r, shift.timezone))
+  if (!shift.lightCheck.flagged) return []
+  return [describeReviewReason({ reason: 'light', minutesBelow: shift.lightCheck.minutesBelow, requirement: shift.lightCheck.requirement }, shift.timezone)]
+}
+
+/**
+ * The state of a shift in words: clear (no review needed), waiting (with its reasons), or the safety
+ * decision, each named by its one state word (REVIEW_STATE_WORDS).
+ */
+export function describeLightState(shift: LightStateShift): LightState {
   const { flagged, minutesBelow, requirement } = shift.lightCheck
-  const below = `${formatDuration(minutesBelow)} below ${REQUIREMENT_WORDS[requirement]}`
-  if (!flagged) {
+  const reasons = describeShiftReasons(shift)
+  const why = reasons.length ? reasons.join('; ') : (flagged ? `${formatDuration(minutesBelow)} below ${REQUIREMENT_WORDS[requirement]}` : '')
+  const reasonWords = (shift.reviewReasonDetails ?? (flagged ? [{ reason: 'light' as const }] : [])).map(r => REVIEW_REASON_WORDS[r.reason].toLowerCase())
+  const note = shift.review?.current && shift.review.note ? ` Note: ${shift.review.note}` : ''
+  if (shift.reviewState === 'not-needed') {
     const detail = requirement === 'any' ? 'Lit work area: no daylight needed' : `Within ${REQUIREMENT_WORDS[requirement]} throughout`
-    return { key: 'clear', label: 'Clear', short: 'Clear', detail }
+    return { key: 'clear', label: 'Clear', short: 'Clear', detail: `${detail}. ${REVIEW_STATE_WORDS['not-needed']}.` }
   }
-  const short = formatDuration(minutesBelow)
-  if (shift.reviewState === 'approved') return { key: 'approved', label: 'Approved', short: 'Approved', detail: `${below}; approved by safety review` }
-  if (shift.reviewState === 'rejected') return { key: 'rejected', label: 'Rejected', short: 'Rejected', detail: `${below}; rejected by safety review` }
-  if (shift.reviewState === 'changes-requested') return { key: 'changes-requested', label: 'Changes requested', short: 'Changes asked', detail: `${below}; safety review asks for changes` }
-  return { key: 'flagged', label: `Flagged: ${below}`, short: `Flagged: ${short} below`, detail: 'Waiting for safety review' }
+  const word = REVIEW_STATE_WORDS[shift.reviewState]
+  if (shift.reviewState === 'approved') return { key: 'approved', label: word, short: word, detail: `${why}.${note}` }
+  if (shift.reviewState === 'rejected') return { key: 'rejected', label: word, short: word, detail: `${why}.${note}` }
+  if (shift.reviewState === 'changes-requested') return { key: 'changes-requested', label: word, short: word, detail: `${why}.${note}` }
+  const short = reasonWords.length ? `${word}: ${reasonWords.join(', ')}` : word
+  return { key: 'flagged', label: why ? `${word}: ${why}` : word, short, detail: why ? `Why: ${why}.` : '' }
 }
 
 const WALL_RE = /^\d{4}-\d{2}-\d{2}T([01]\d|2[0-3]):[0-5]\d$/

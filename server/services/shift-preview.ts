@@ -18,9 +18,14 @@ export function previewShiftCheck(db: AppDatabase, body: ShiftInput & { shiftId?
   if (body.shiftId !== undefined && !db.select({ id: shifts.id }).from(shifts).where(eq(shifts.id, body.shiftId)).get()) {
     throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: `Invalid shiftId: no shift with id ${body.shiftId}`, data: { issues: [{ field: 'shiftId', message: 'no such shift' }] } })
   }
-  const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: body.light })
+  const travelMinutes = body.travelMinutes ?? site.travelMinutes
+  const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: body.light, travelMinutes })
   return {
-    lightCheck: { requirement: check.requirement, minutesBelow: check.minutesBelow, flagged: check.flagged },
+    travelMinutes,
+    lightCheck: {
+      requirement: check.requirement, minutesBelow: check.minutesBelow, flagged: check.flagged,
+      checkedFrom: formatZonedIso(check.checkedFromMs, site.timezone), checkedTo: formatZonedIso(check.checkedToMs, site.timezone)
+    },
     bands: check.bands.map(b => ({ kind: b.kind, start: formatZonedIso(b.startMs, site.timezone), end: formatZonedIso(b.endMs, site.timezone) })),
     conflicts: computeCandidateConflicts(db, { shiftId: body.shiftId, startMs, endMs, personIds }),
     timeNotes: notes

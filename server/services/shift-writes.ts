@@ -6,13 +6,15 @@ import { recordAudit } from './audit'
 import { computeStoredCheck, requireAssignees, requireSiteForShift, resolveShiftTimes, type ShiftInput, type ShiftPatch } from './shifts'
 import { conflict, notFound } from '../utils/errors'
 import { announceShiftChange } from './shift-notices'
+import { assessShiftReview } from './reviews'
 import { computeCandidateConflicts } from './conflict-context'
 import type { ShiftConflict } from '../core/planning/conflicts'
+import { computeOutingWindow } from '../core/light/check'
 import { nowDate } from '../core/time/clock'
 
-/** A flagged shift waits for review; an unflagged one needs none. */
-export function initialReviewState(flagged: boolean): Shift['reviewState'] {
-  return flagged ? 'pending' : 'not-needed'
+/** A shift with any review reason (light, cold, lone, long) waits for review; one with none needs none. */
+export function initialReviewState(needsReview: boolean): Shift['reviewState'] {
+  return needsReview ? 'pending' : 'not-needed'
 }
 
 /** Creates a shift with its assignees, light check and audit entry in one transaction. */
@@ -21,7 +23,9 @@ export function createShift(db: AppDatabase, actor: Pick<User, 'id'>, input: Shi
     const site = requireSiteForShift(tx, input.siteId)
     const { startMs, endMs, notes } = resolveShiftTimes(input.start, input.end, site.timezone)
     const assigneeIds = requireAssignees(tx, input.assigneeIds)
-    const check = computeStoredCheck(site, startMs, endMs, input.light)
+    const travelMinutes = input.travelMinutes ?? site.travelMinutes
+    const check = computeStoredCheck(site, startMs, endMs, input.light, travelMinutes)
+    const reviewReasons = assessShiftReview(tx, { site, window: computeOutingWindow(startMs, endMs, travelMinutes), startMs, endMs, lightCheck: { ...check, requirement: input.light }, assigneeCount: assigneeIds.length })
     const row = tx.insert(shifts).values({
       siteId: site.id,
       title: input.title,
@@ -29,9 +33,11 @@ export function createShift(db: AppDatabase, actor: Pick<User, 'id'>, input: Shi
       endAt: new Date(endMs),
       light: input.light,
       notes: input.notes ?? '',
+      travelMinutes,
       conflictOverride: input.overrideReason || null,
       ...check,
-      reviewState: initialReviewState(check.flagged),
+      reviewReasons,
+      reviewState: initialReviewState(reviewReasons.length > 0),
       createdBy: actor.id
     }).returning().get()
     if (assigneeIds.length) tx.insert(shiftAssignees).values(assigneeIds.map(personId => ({ shiftId: row.id, personId }))).run()
@@ -74,10 +80,15 @@ export function updateShift(db: AppDatabase, actor: Pick<User, 'id'>, id: number
     const times = resolveShiftTimes(patch.start ?? current.startAt.toISOString(), patch.end ?? current.endAt.toISOString(), site.timezone)
     const assigneeIds = patch.assigneeIds ? requireAssignees(tx, patch.assigneeIds) : currentIds
     const light = patch.light ?? current.light
-    const material = site.id !== current.siteId || times.startMs !== current.startAt.getTime()
+    const travelMinutes = patch.travelMinutes ?? current.travelMinutes
+    const material = travelMinutes !== current.travelMinutes || site.id !== current.siteId || times.startMs !== current.startAt.getTime()
       || times.endMs !== current.endAt.getTime() || light !== current.light || !sameIds(assigneeIds, currentIds)
-    const check = computeStoredCheck(site, times.startMs, times.endMs, light)
-    const reviewState = material ? initialReviewState(check.flagged) : current.reviewState
+    const check = computeStoredCheck(site, times.startMs, times.endMs, light, travelMinutes)
+    const reviewReasons = assessShiftReview(tx, { site, window: computeOutingWindow(times.startMs, times.endMs, travelMinutes), startMs: times.startMs, endMs: times.endMs, lightCheck: { ...check, requirement: light }, assigneeCount: assigneeIds.length })
+    // a material change re-opens any decision; a new reason on an unchanged shift (new forecast) needs one too
+    const reviewState = material || (current.reviewState === 'not-needed' && reviewReasons.length)
+      ? initialReviewState(reviewReasons.length > 0)
+      : current.reviewState
     tx.update(shifts).set({
       siteId: site.id,
       title: patch.title ?? current.title,
@@ -85,8 +96,10 @@ export function updateShift(db: AppDatabase, actor: Pick<User, 'id'>, id: number
       endAt: new Date(times.endMs),
       light,
       notes: patch.notes ?? current.notes,
+      travelMinutes,
       conflictOverride: patch.overrideReason !== undefined ? (patch.overrideReason || null) : current.conflictOverride,
       ...check,
+      reviewReasons,
       reviewState,
       version: current.version + 1,
       updatedAt: nowDate()

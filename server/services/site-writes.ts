@@ -7,7 +7,9 @@ import { conflict, notFound } from '../utils/errors'
 import { announceShiftChange } from './shift-notices'
 import { computeStoredCheck } from './shifts'
 import { initialReviewState } from './shift-writes'
+import { assessShiftReview } from './reviews'
 import { SiteBodySchema } from './sites'
+import { computeOutingWindow } from '../core/light/check'
 import { nowDate } from '../core/time/clock'
 
 export const SitePatchSchema = SiteBodySchema.partial()
@@ -40,10 +42,13 @@ function recheckSiteShifts(tx: Tx, site: Site, material: boolean): RecheckedShif
   const rows = tx.select().from(shifts).where(and(eq(shifts.siteId, site.id), isNull(shifts.cancelledAt))).all()
   const changed: RecheckedShift[] = []
   for (const row of rows) {
-    const check = computeStoredCheck(site, row.startAt.getTime(), row.endAt.getTime(), row.light)
-    const reviewState = material ? initialReviewState(check.flagged) : row.reviewState
-    if (check.minutesBelow === row.minutesBelow && check.flagged === row.flagged && reviewState === row.reviewState) continue
-    tx.update(shifts).set({ ...check, reviewState, version: row.version + 1, updatedAt: nowDate() }).where(eq(shifts.id, row.id)).run()
+    const check = computeStoredCheck(site, row.startAt.getTime(), row.endAt.getTime(), row.light, row.travelMinutes)
+    const assigneeCount = tx.select({ id: shiftAssignees.personId }).from(shiftAssignees).where(eq(shiftAssignees.shiftId, row.id)).all().length
+    const reviewReasons = assessShiftReview(tx, { site, window: computeOutingWindow(row.startAt.getTime(), row.endAt.getTime(), row.travelMinutes), startMs: row.startAt.getTime(), endMs: row.endAt.getTime(), lightCheck: { ...check, requirement: row.light }, assigneeCount })
+    const reviewState = material ? initialReviewState(reviewReasons.length > 0) : row.reviewState
+    const sameReasons = JSON.stringify(reviewReasons) === JSON.stringify(row.reviewReasons)
+    if (check.minutesBelow === row.minutesBelow && check.flagged === row.flagged && reviewState === row.reviewState && sameReasons) continue
+    tx.update(shifts).set({ ...check, reviewReasons, reviewState, version: row.version + 1, updatedAt: nowDate() }).where(eq(shifts.id, row.id)).run()
     const assigneeIds = tx.select({ id: shiftAssignees.personId }).from(shiftAssignees).where(eq(shiftAssignees.shiftId, row.id)).all().map(r => r.id)
     changed.push({ id: row.id, assigneeIds, flaggedNow: check.flagged && !row.flagged })
   }

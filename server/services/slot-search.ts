@@ -42,7 +42,9 @@ export const SlotSearchBodySchema = z.object({
   crewId: z.number({ error: 'expected a crew id' }).int().positive().optional(),
   headcount: z.number({ error: 'expected a number of people' }).int().min(1, 'must be at least 1').max(200).optional(),
   rank: z.enum(SLOT_RANKS, { error: 'must be earliest or margin' }).default('earliest'),
-  perDay: z.number({ error: 'expected a number of slots' }).int().min(1).max(MAX_SLOTS_PER_DAY, `must be at most ${MAX_SLOTS_PER_DAY}`).default(1)
+  perDay: z.number({ error: 'expected a number of slots' }).int().min(1).max(MAX_SLOTS_PER_DAY, `must be at most ${MAX_SLOTS_PER_DAY}`).default(1),
+  // each way; absent: the site's travelMinutes. Slots are time on site; the whole outing is in the light.
+  travelMinutes: z.number({ error: 'expected minutes of travel each way' }).int('must be whole minutes').min(0, 'must be 0 or more').max(720, 'must be at most 720').optional()
 }).superRefine((body, ctx) => {
   if (!body.assigneeIds?.length && body.crewId === undefined) {
     ctx.addIssue({ code: 'custom', path: ['assigneeIds'], message: 'give at least one person (assigneeIds) or a crew (crewId)' })
@@ -91,10 +93,13 @@ function loadSlotContext(db: AppDatabase, personIds: number[], fromMs: number, t
 export function searchSlots(db: AppDatabase, body: SlotSearchBody, nowMs = clockNowMs()): SlotSearchResult {
   const site = requireSiteForShift(db, body.siteId)
   const place = { latitude: site.latitude, longitude: site.longitude, timezone: site.timezone }
-  // A slot that starts on the last day may run past its midnight: add the days it can reach.
-  const tail = Math.ceil(body.durationMinutes / 1440)
-  const days = computeLightDaysMs({ ...place, from: body.from, to: shiftLocalDate(body.to, tail) })
-  const windowDays = days.filter(d => d.date <= body.to)
+  const travelMinutes = body.travelMinutes ?? site.travelMinutes
+  // A slot that starts on the last day may run past its midnight, and its trip out may begin the day
+  // before the first: add the days the outing can reach.
+  const tail = Math.ceil((body.durationMinutes + travelMinutes) / 1440)
+  const head = Math.ceil(travelMinutes / 1440)
+  const days = computeLightDaysMs({ ...place, from: shiftLocalDate(body.from, -head), to: shiftLocalDate(body.to, tail) })
+  const windowDays = days.filter(d => d.date >= body.from && d.date <= body.to)
   const windowMinutes = (windowDays[windowDays.length - 1]!.endMs - windowDays[0]!.startMs) / 60_000
   if (body.durationMinutes > windowMinutes) throw fieldError('durationMinutes', `a ${body.durationMinutes}-minute task is longer than the window from ${body.from} to ${body.to}`)
   const pool = gatherPeople(db, body)
@@ -103,7 +108,7 @@ export function searchSlots(db: AppDatabase, body: SlotSearchBody, nowMs = clock
   const context = loadSlotContext(db, pool.map(p => p.id), days[0]!.startMs, days[days.length - 1]!.endMs, rules)
   const outcome = findSlots({
     days, from: body.from, to: body.to, durationMinutes: body.durationMinutes, requirement: body.light,
-    people: pool, headcount: body.headcount, context, rules, rank: body.rank, perDay: body.perDay, notBeforeMs: nowMs
+    people: pool, headcount: body.headcount, context, rules, rank: body.rank, perDay: body.perDay, notBeforeMs: nowMs, travelMinutes
   })
   const nameOf = new Map(pool.map(p => [p.id, p.name]))
   return {
@@ -122,6 +127,7 @@ export function searchSlots(db: AppDatabase, body: SlotSearchBody, nowMs = clock
     reasonCode: outcome.reasonCode,
     daysWithSlots: outcome.daysWithSlots,
     daysSearched: outcome.daysSearched,
+    travelMinutes,
     rules
   }
 }

@@ -18,24 +18,38 @@ export interface ShiftLightInput {
   startMs: number
   endMs: number
   requirement: LightRequirement
+  /** Minutes of travel each way (0 when absent): the check covers the whole outing. */
+  travelMinutes?: number
+}
+
+/** Longest travel each way a shift or site may carry (DESIGN.md: 0–720 minutes). */
+export const MAX_TRAVEL_MINUTES = 720
+
+/** The outing of a shift: from leaving (start − travel) to being back (end + travel), in ms. */
+export function computeOutingWindow(startMs: number, endMs: number, travelMinutes = 0): { fromMs: number, toMs: number } {
+  const travelMs = Math.max(0, travelMinutes) * 60_000
+  return { fromMs: startMs - travelMs, toMs: endMs + travelMs }
 }
 
 /**
  * Checks a shift against its light requirement: `daylight` needs `day`, `civil` needs `day` or `civil`,
  * `any` (artificially lit work area) is never below requirement, though its bands are still returned.
- * minutesBelow is rounded to whole minutes; the shift is flagged from 1 minute.
+ * minutesBelow is rounded to whole minutes; the shift is flagged from 1 minute. The trip out and back
+ * is outdoor work in the same light as the task (a snow machine or boat in the dark is the hazard, not
+ * only the work on site), so the requirement applies to the whole outing, start − travel to end + travel.
  */
-export function checkShiftLight(input: ShiftLightInput): ShiftLightCheck {
+export function checkShiftLight(input: ShiftLightInput): ShiftLightCheck & { checkedFromMs: number, checkedToMs: number } {
   const { requirement } = input
   if (!LIGHT_REQUIREMENT_KINDS.includes(requirement)) {
     throw new RangeError(`requirement must be one of ${LIGHT_REQUIREMENT_KINDS.join(', ')}, got "${requirement}"`)
   }
-  const bands = computeLightPeriodsInRange(input.latitude, input.longitude, input.startMs, input.endMs)
+  const { fromMs, toMs } = computeOutingWindow(input.startMs, input.endMs, input.travelMinutes)
+  const bands = computeLightPeriodsInRange(input.latitude, input.longitude, fromMs, toMs)
   const meets = BANDS_MEETING_REQUIREMENT[requirement]
   let belowMs = 0
   for (const band of bands) {
     if (!meets.includes(band.kind)) belowMs += band.endMs - band.startMs
   }
   const minutesBelow = Math.round(belowMs / 60_000)
-  return { requirement, minutesBelow, flagged: minutesBelow >= FLAG_MINUTES_BELOW, bands }
+  return { requirement, minutesBelow, flagged: minutesBelow >= FLAG_MINUTES_BELOW, bands, checkedFromMs: fromMs, checkedToMs: toMs }
 }

@@ -30,8 +30,14 @@ export interface SlotSearchInput {
   rules: WorkRules
   rank: SlotRank
   perDay?: number
-  /** No slot starts before this instant (now, for a real search). */
+  /** No slot starts (no party leaves) before this instant (now, for a real search). */
   notBeforeMs?: number
+  /**
+   * Minutes of travel each way. Slots are time on site; the whole outing, start − travel to
+   * end + travel, must lie in the light (DESIGN.md, "Travel"). `days` must then reach far enough
+   * before the first and after the last local day for the trip.
+   */
+  travelMinutes?: number
 }
 
 export interface SlotMs {
@@ -153,13 +159,16 @@ export interface DayScan {
 function scanDay(day: SlotSearchInput['days'][number], input: SlotSearchInput, intervals: Interval[], rosters: Map<number, PersonRoster>, need: number): DayScan {
   const scan: DayScan = { valid: [], lightFits: 0, blockers: new Map(), past: 0 }
   const durationMs = input.durationMinutes * MINUTE_MS
+  const travelMs = (input.travelMinutes ?? 0) * MINUTE_MS
   let k = 0
   for (let startMs = day.startMs; startMs < day.endMs; startMs += SLOT_STEP_MINUTES * MINUTE_MS) {
     const endMs = startMs + durationMs
-    while (k < intervals.length && intervals[k]!.endMs < endMs) k++
+    const leaveMs = startMs - travelMs
+    const backMs = endMs + travelMs
+    while (k < intervals.length && intervals[k]!.endMs < backMs) k++
     const interval = intervals[k]
-    if (!interval || interval.startMs > startMs) continue
-    if (input.notBeforeMs !== undefined && startMs < input.notBeforeMs) {
+    if (!interval || interval.startMs > leaveMs) continue
+    if (input.notBeforeMs !== undefined && leaveMs < input.notBeforeMs) {
       scan.past++
       continue
     }
@@ -168,8 +177,8 @@ function scanDay(day: SlotSearchInput['days'][number], input: SlotSearchInput, i
     if (check.ok) {
       scan.valid.push({
         date: day.date, startMs, endMs,
-        lightBeforeMinutes: minutesOrNull(startMs - interval.startMs, interval.openStart),
-        lightAfterMinutes: minutesOrNull(interval.endMs - endMs, interval.openEnd),
+        lightBeforeMinutes: minutesOrNull(leaveMs - interval.startMs, interval.openStart),
+        lightAfterMinutes: minutesOrNull(interval.endMs - backMs, interval.openEnd),
         assigneeIds: check.free
       })
       continue
@@ -250,7 +259,7 @@ function describeLongestLight(input: SlotSearchInput): string {
     if (!best || minutes > best.minutes) best = { minutes, date: day.date }
   }
   if (!best) return `There is no ${REQUIREMENT_TEXT[input.requirement]} at all at this site from ${formatDate(input.from)} to ${formatDate(input.to)}.`
-  return `The longest stretch of ${REQUIREMENT_TEXT[input.requirement]} from ${formatDate(input.from)} to ${formatDate(input.to)} is ${formatDuration(best.minutes)}, on ${formatDate(best.date)}; the task needs ${formatDuration(input.durationMinutes)}.`
+  return `The longest stretch of ${REQUIREMENT_TEXT[input.requirement]} from ${formatDate(input.from)} to ${formatDate(input.to)} is ${formatDuration(best.minutes)}, on ${formatDate(best.date)}; the task needs ${formatDuration(input.durationMinutes)}${input.travelMinutes ? ` plus ${formatDuration(input.travelMinutes)} of travel each way` : ''}.`
 }
 
 function explainNoSlot(input: SlotSearchInput, scans: DayScan[]): { reason: string, reasonCode: SlotReasonCode } {
