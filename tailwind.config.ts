@@ -22,11 +22,11 @@ export default {
         signal: { DEFAULT: '#b3261e', dark: '#f2867f' },
         dusk: { DEFAULT: '#0f1526', card: '#182036', line: '#2a3552', text: '#d9e1ec', dim: '#9fb0c8' },
         band: {
-          day: '#f7e3a1',
-          civil: '#e9b872',
-          nautical: '#8a9fc4',
-          astronomical: '#46557d',
-          night: '#1d2438'
+          day: '#f3ecd9',
+          civil: '#d9c3cf',
+          nautical: '#9a86a8',
+          astronomical: '#54496b',
+          night: '#1f1b2e'
         }
       },
       fontFamily: {
