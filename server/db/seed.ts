@@ -52,20 +52,22 @@ const CREWS = [
 interface Pattern { hour: number, hours: number, title: string, light: 'daylight' | 'civil' | 'any', people: string[], days: number[] }
 const MON_SAT = [1, 2, 3, 4, 5, 6]
 const MON_FRI = [1, 2, 3, 4, 5]
+const EVERY_DAY = [0, 1, 2, 3, 4, 5, 6]
 const SUNDAY = [0]
 
 // per site: the work pattern (local start hour, length, task, requirement, the same people each
 // working day, so nobody is planned twice at once or without a night's rest). Seeded on any date, every
 // day of the week holds both flagged and clear work, and the crew demo account works every day:
+// - the ice camp and the far-south station work every day of their season, so Sundays have people too;
 // - clear every day: 'any' light never flags (weather mast Mon–Sat, camp systems round on Sundays);
 // - flagged every day: the night outage switching at Larsen Wharf (60.4° N) needs daylight, and the
 //   sun is below the horizon there at local midnight all year (it never rises above 0° at midnight
 //   south of the Arctic Circle).
 const PATTERNS: Record<string, Pattern[]> = {
   'Kvitfjell Ice Camp': [
-    { hour: 9, hours: 4, title: 'Snow-machine route check', light: 'civil', people: ['crew@gloamline.test', 'jonas.eide@gloamline.test'], days: MON_SAT },
+    { hour: 9, hours: 4, title: 'Snow-machine route check', light: 'civil', people: ['crew@gloamline.test', 'jonas.eide@gloamline.test'], days: EVERY_DAY },
     { hour: 13, hours: 3, title: 'Weather mast service', light: 'any', people: ['liv.aasen@gloamline.test', 'kalle.niemi@gloamline.test'], days: MON_SAT },
-    { hour: 10, hours: 3, title: 'Camp systems round', light: 'any', people: ['crew@gloamline.test'], days: SUNDAY }
+    { hour: 13, hours: 3, title: 'Camp systems round', light: 'any', people: ['liv.aasen@gloamline.test'], days: SUNDAY }
   ],
   'Ravnvik Pipeline Yard': [
     { hour: 8, hours: 6, title: 'Pipe stringing', light: 'daylight', people: ['sofia.marchetti@gloamline.test', 'nora.tuktu@gloamline.test'], days: MON_FRI },
@@ -84,7 +86,7 @@ const PATTERNS: Record<string, Pattern[]> = {
     { hour: 22, hours: 4, title: 'Outage switching', light: 'daylight', people: ['aino.korhonen@gloamline.test'], days: [4, 5, 6] }
   ],
   'Cape Mawdsley Station': [
-    { hour: 8, hours: 9, title: 'Sea-ice route flagging', light: 'daylight', people: ['tane.walker@gloamline.test', 'ana.kealoha@gloamline.test'], days: MON_SAT }
+    { hour: 8, hours: 9, title: 'Sea-ice route flagging', light: 'daylight', people: ['tane.walker@gloamline.test', 'ana.kealoha@gloamline.test'], days: EVERY_DAY }
   ]
 }
 

@@ -5,7 +5,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
 import { startMailSink } from '../../scripts/mail-sink.mjs'
 import { signedInClient, startAppServer, type AppServer } from '../support/app-server'
-import { keepScreenshot, launchBrowser, signInThroughPage } from '../support/browser'
+import { TEST_CLOCK, utcDateOf } from '../support/clock'
+import { keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
 
 const PHONE = { width: 390, height: 844 }
 let server: AppServer
@@ -14,7 +15,8 @@ let sink: { url: string, messages: { to: string[], text: string }[], close: () =
 
 beforeAll(async () => {
   sink = await startMailSink({ port: 0 })
-  server = await startAppServer({ env: { SMTP_URL: sink.url, REMINDER_TIMER: 'off' } })
+  // a Saturday evening: the crew member's tomorrow is a Sunday, which the demo plans work on too
+  server = await startAppServer({ clockStart: TEST_CLOCK.saturdayEveningBeforeChange, env: { SMTP_URL: sink.url, REMINDER_TIMER: 'off' } })
   browser = await launchBrowser()
 })
 afterAll(async () => {
@@ -26,6 +28,7 @@ afterAll(async () => {
 async function crewPage(theme: 'light' | 'dark'): Promise<Page> {
   const context = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 1, colorScheme: theme })
   const page = await context.newPage()
+  await matchServerClock(page, server)
   await signInThroughPage(page, server.url, 'crew@gloamline.test')
   await page.getByTestId('home-crew').waitFor()
   return page
@@ -35,7 +38,8 @@ describe('the crew home on a phone', () => {
   it('shows tomorrow\'s light window and the person\'s shifts, as the server computed them', async () => {
     const page = await crewPage('light')
     const today = await (await page.request.get(`${server.url}/api/me/today`)).json()
-    const site = today.sites.find((s: any) => s.days[1].shifts.length > 0) ?? today.sites[0]
+    const site = today.sites.find((s: any) => s.days[1].shifts.length > 0)
+    expect(site, 'the demo crew account has work tomorrow').toBeDefined()
     const tomorrow = site.days[1]
     const panel = page.getByTestId(`crew-site-${site.id}`).getByTestId('crew-day-tomorrow')
     await panel.waitFor()
@@ -101,6 +105,7 @@ describe('an invitation link', () => {
     const link = /(http:\/\/\S+\/welcome\?token=\S+)/.exec(sink.messages.find(m => m.to.includes(email))!.text)![1]!
     const context = await browser.newContext({ viewport: PHONE })
     const page = await context.newPage()
+    await matchServerClock(page, server)
     await page.goto(link)
     await expect.poll(() => page.getByTestId('welcome').textContent()).toContain('Hello Eira Nes')
     await page.getByLabel('Choose a password').fill('moraine-kettle-dusk-31')
@@ -119,10 +124,11 @@ describe('an invitation link', () => {
 describe('the outbox', () => {
   it('lists the reminders sent and shows a message\'s HTML in a sandboxed frame and its text', async () => {
     const coordinator = await signedInClient(server, 'coordinator@gloamline.test')
-    const date = new Date(Date.now() + 86_400_000).toISOString().slice(0, 10)
+    const date = utcDateOf(server.clock.now(), 1)
     expect((await coordinator.post(`/api/reminders/run?date=${date}`)).status).toBe(200)
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
     const page = await context.newPage()
+    await matchServerClock(page, server)
     await signInThroughPage(page, server.url, 'coordinator@gloamline.test')
     await page.goto(`${server.url}/outbox`)
     const first = page.getByTestId('outbox-list').locator('button').first()

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
 import { startAppServer, type AppServer } from '../support/app-server'
-import { keepScreenshot, launchBrowser, signInThroughPage } from '../support/browser'
+import { keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
 
 let server: AppServer
 let browser: Browser
@@ -18,6 +18,7 @@ afterAll(async () => {
 describe('signing in from the browser', () => {
   it('sends a signed-out person to the sign-in page', async () => {
     const page = await browser.newPage()
+    await matchServerClock(page, server)
     await page.goto(`${server.url}/plan`)
     await page.waitForURL(/\/login/)
     expect(new URL(page.url()).searchParams.get('redirect')).toBe('/plan')
@@ -27,6 +28,7 @@ describe('signing in from the browser', () => {
   for (const role of ['coordinator', 'safety', 'crew'] as const) {
     it(`signs in as the ${role} demo account and sees the ${role} home`, async () => {
       const page = await browser.newPage({ viewport: { width: 1280, height: 900 } })
+      await matchServerClock(page, server)
       await signInThroughPage(page, server.url, `${role}@gloamline.test`)
       await page.getByTestId(`home-${role}`).waitFor()
       expect(await page.getByTestId('signed-in-as').textContent()).toContain(role)
@@ -37,6 +39,7 @@ describe('signing in from the browser', () => {
 
   it('shows the same message for a wrong password', async () => {
     const page = await browser.newPage()
+    await matchServerClock(page, server)
     await page.goto(`${server.url}/login`)
     await page.getByLabel('E-mail').fill('crew@gloamline.test')
     await page.getByLabel('Password').fill('not-this-one')

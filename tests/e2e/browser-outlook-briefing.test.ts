@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
 import { startFakeForecastServer } from '../../scripts/fake-forecast.mjs'
 import { signedInClient, startAppServer, type AppServer } from '../support/app-server'
-import { keepScreenshot, launchBrowser, signInThroughPage } from '../support/browser'
+import { keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
 
 // The daily briefing with a stored forecast: the local fake forecast server (scripts/fake-forecast.mjs,
 // invented but deterministic figures) stands in for the forecast service, so no test reaches the network.
@@ -31,6 +31,7 @@ afterAll(async () => {
 describe('the daily briefing with a forecast', () => {
   it('shows the forecast hours, the coldest case with wind chill and the work/warm-up line, and the cold cautions', async () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 900 } })
+    await matchServerClock(page, server)
     await signInThroughPage(page, server.url, 'coordinator@gloamline.test')
     await page.goto(`${server.url}/sites/${siteId}/briefing`)
     await page.waitForLoadState('networkidle')

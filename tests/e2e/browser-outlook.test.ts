@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
 import { signedInClient, startAppServer, type AppServer } from '../support/app-server'
-import { keepScreenshot, launchBrowser, signInThroughPage } from '../support/browser'
+import { keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
 
 // What a coordinator clicks on the outlook pages, in headless Chromium against the built server and
 // the demo scenario (invented sites and people). Screenshots are kept in test-results/screenshots.
@@ -32,6 +32,7 @@ async function coordinatorPage(options: { dark?: boolean } = {}): Promise<Page> 
   const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
   if (options.dark) await context.addCookies([{ name: 'gl-theme', value: 'dark', url: server.url }])
   const page = await context.newPage()
+  await matchServerClock(page, server)
   await signInThroughPage(page, server.url, 'coordinator@gloamline.test')
   return page
 }
@@ -122,7 +123,7 @@ describe('the slot finder', () => {
     await openPage(page, `/slots?siteId=${idOf('Kvitfjell Ice Camp')}`)
     await page.getByTestId('slot-form').waitFor()
     // next year's December at 78° N: the sun does not rise, so daylight work has no slot
-    const y = new Date().getUTCFullYear() + 1
+    const y = new Date(server.clock.now()).getUTCFullYear() + 1
     await page.getByLabel('From (site\'s date)').fill(`${y}-12-10`)
     await page.getByLabel('To, including that day').fill(`${y}-12-20`)
     await page.getByLabel('daylight', { exact: true }).check()

@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Body, Equator, Horizon, Observer } from 'astronomy-engine'
 import type { Browser, Page } from 'playwright-core'
 import { signedInClient, startAppServer, type ApiClient, type AppServer } from '../support/app-server'
-import { keepScreenshot, launchBrowser, signInThroughPage } from '../support/browser'
+import { keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
 
 // USNO: sunrise/sunset when the centre of the disc is 0.833° below the horizon (DESIGN.md)
 const SUNRISE_ALTITUDE = -0.833
@@ -86,6 +86,7 @@ describe('planning on the calendar in the browser', () => {
     expect(Math.abs(evening.lightCheck.minutesBelow - 180)).toBeLessThanOrEqual(1)
 
     const page = await browser.newPage({ viewport: { width: 1400, height: 1300 } })
+    await matchServerClock(page, server)
     await openWeek(page, 'coordinator@gloamline.test')
     expect(await page.getByTestId('calendar-zone').textContent()).toContain(site.timezone)
     const chip = page.locator(`[data-testid="shift-chip"][data-shift-id="${evening.id}"]`)
@@ -119,6 +120,7 @@ describe('planning on the calendar in the browser', () => {
   it('rolls a drag back and shows the server\'s message when the shift changed meanwhile', async () => {
     const shift = await createShift('Tide gauge check', '2027-03-04T17:00', '2027-03-04T19:00')
     const page = await browser.newPage({ viewport: { width: 1400, height: 1300 } })
+    await matchServerClock(page, server)
     await openWeek(page, 'coordinator@gloamline.test')
     const chip = page.locator(`[data-testid="shift-chip"][data-shift-id="${shift.id}"]`)
     await chip.waitFor()
@@ -140,6 +142,7 @@ describe('planning on the calendar in the browser', () => {
     const crewId = people.find(p => p.email === 'crew@gloamline.test')!.id
     const own = await createShift('Weather mast service', '2027-03-05T10:00', '2027-03-05T13:00', [crewId])
     const page = await browser.newPage({ viewport: { width: 1400, height: 1300 }, colorScheme: 'dark' })
+    await matchServerClock(page, server)
     await openWeek(page, 'crew@gloamline.test')
     await page.locator(`[data-testid="shift-chip"][data-shift-id="${own.id}"]`).waitFor()
     expect(await page.evaluate(() => document.documentElement.classList.contains('dark'))).toBe(true)

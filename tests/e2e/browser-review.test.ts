@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { keepScreenshot, launchBrowser, signInThroughPage } from '../support/browser'
+import { keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
 import { createDarkShift, createDarkSite, findPeopleIds, startSafetyWorld, type SafetyWorld } from './safety-fixtures'
 
 let world: SafetyWorld
@@ -23,6 +23,7 @@ afterAll(async () => {
 describe('safety review in the browser', () => {
   it('lets the safety officer read the queue and its cautions, and approve with two mitigations', async () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 900 } })
+    await matchServerClock(page, world.server)
     await signInThroughPage(page, world.server.url, 'safety@gloamline.test')
     await page.getByTestId('home-safety-counts').waitFor()
     await keepScreenshot(page, 'review-home-safety')
@@ -62,6 +63,7 @@ describe('safety review in the browser', () => {
     expect(shift.review).toMatchObject({ decision: 'approved', mitigations: ['portable-lighting', 'warmup-breaks'], reviewerName: 'Tomas Reyes', current: true })
 
     const page = await browser.newPage({ viewport: { width: 1280, height: 900 } })
+    await matchServerClock(page, world.server)
     await signInThroughPage(page, world.server.url, 'coordinator@gloamline.test')
     await page.goto(`${world.server.url}/review/${shiftId}`)
     const badge = page.getByTestId('review-badge')
@@ -76,6 +78,7 @@ describe('safety review in the browser', () => {
   it('reads in the dark theme', async () => {
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, colorScheme: 'dark' })
     const page = await context.newPage()
+    await matchServerClock(page, world.server)
     await signInThroughPage(page, world.server.url, 'safety@gloamline.test')
     await page.goto(`${world.server.url}/review`)
     await page.getByTestId('queue-item').first().waitFor()

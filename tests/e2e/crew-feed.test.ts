@@ -35,7 +35,7 @@ beforeAll(async () => {
   }
   // and one in three days at the site nearest the equator, where the sun rises and sets in any season
   const sunny = (await coordinator.get('/api/sites')).body.sort((a: any, b: any) => Math.abs(a.latitude) - Math.abs(b.latitude))[0]
-  const day = new Date(Date.now() + 3 * 86_400_000).toISOString().slice(0, 10)
+  const day = new Date(server.clock.now() + 3 * 86_400_000).toISOString().slice(0, 10)
   const soon = await coordinator.post('/api/shifts', { siteId: sunny.id, title: 'Line patrol (feed test)', light: 'civil', assigneeIds: [crewId], overrideReason: 'feed test', start: `${day}T10:00`, end: `${day}T12:00` })
   expect(soon.status, JSON.stringify(soon.body)).toBe(201)
 })
@@ -56,7 +56,7 @@ function parseEvents(text: string) {
 function shiftsOfCrewInDatabase() {
   const db = new Database(server.databasePath, { readonly: true })
   const rows = db.prepare(`select s.id, s.start_at as startAt, s.end_at as endAt, s.minutes_below as minutesBelow, s.site_id as siteId from shifts s
-    join shift_assignees a on a.shift_id = s.id where a.person_id = ? and s.cancelled_at is null and s.end_at > ?`).all(crewId, Date.now() - 60 * 86_400_000) as { id: number, startAt: number, endAt: number, minutesBelow: number, siteId: number }[]
+    join shift_assignees a on a.shift_id = s.id where a.person_id = ? and s.cancelled_at is null and s.end_at > ?`).all(crewId, server.clock.now() - 60 * 86_400_000) as { id: number, startAt: number, endAt: number, minutesBelow: number, siteId: number }[]
   db.close()
   return rows
 }
@@ -130,7 +130,7 @@ describe('the calendar feed', () => {
     }
     expect(checked).toBeGreaterThan(0)
     const last = Math.max(...sun.map(e => e.event.startDate.toJSDate().getTime()))
-    expect(last - Date.now()).toBeLessThanOrEqual(15 * 86_400_000)
+    expect(last - server.clock.now()).toBeLessThanOrEqual(15 * 86_400_000)
     await crew.patch('/api/me/preferences', { feedIncludeSun: false })
   })
 

@@ -76,7 +76,7 @@ describe('invitations', () => {
     const reply = await coordinator.post('/api/invitations', { name: 'Ole Strand', email, role: 'crew' })
     const token = tokenOf(linkIn(email))
     const db = new Database(server.databasePath)
-    db.prepare('update invitations set expires_at = ? where person_id = ?').run(Date.now() - 1000, reply.body.person.id)
+    db.prepare('update invitations set expires_at = ? where person_id = ?').run(server.clock.now() - 1000, reply.body.person.id)
     db.close()
     const expired = await new ApiClient(server.url).post('/api/auth/invitation', { token, password: PASSWORD })
     expect(expired.status).toBe(410)

@@ -4,6 +4,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { startMailSink } from '../../scripts/mail-sink.mjs'
 import { signedInClient, startAppServer, type ApiClient, type AppServer } from '../support/app-server'
+import { TEST_CLOCK, utcDateOf } from '../support/clock'
 
 interface SinkMessage { to: string[], subject: string, text: string, html: string }
 let sink: { url: string, messages: SinkMessage[], close: () => Promise<void> }
@@ -11,12 +12,13 @@ let server: AppServer
 let coordinator: ApiClient
 let people: { id: number, email: string, role: string, active: boolean }[]
 let window: { siteId: number, startMs: number }
-const day = new Date(Date.now() + 5 * 86_400_000).toISOString().slice(0, 10)
+const CLOCK_START = TEST_CLOCK.saturdayEveningBeforeChange
+const day = utcDateOf(Date.parse(CLOCK_START), 5)
 
 beforeAll(async () => {
   sink = await startMailSink({ port: 0 })
   // notices come from no request of the person reading them: their links use PUBLIC_BASE_URL
-  server = await startAppServer({ env: { SMTP_URL: sink.url, REMINDER_TIMER: 'off', PUBLIC_BASE_URL: 'https://field.northwake.test' } })
+  server = await startAppServer({ clockStart: CLOCK_START, env: { SMTP_URL: sink.url, REMINDER_TIMER: 'off', PUBLIC_BASE_URL: 'https://field.northwake.test' } })
   coordinator = await signedInClient(server, 'coordinator@gloamline.test')
   people = (await coordinator.get('/api/people')).body
   window = await findSunDownWindow(coordinator, day)

@@ -12,6 +12,7 @@ import { fromZonedTime } from 'date-fns-tz'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { startMailSink } from '../../scripts/mail-sink.mjs'
 import { freePort, signedInClient, startAppServer, type AppServer } from '../support/app-server'
+import { TEST_CLOCK, utcDateOf } from '../support/clock'
 
 interface SinkMessage { to: string[], subject: string, text: string, html: string }
 interface Sink { url: string, port: number, messages: SinkMessage[], close: () => Promise<void> }
@@ -23,7 +24,9 @@ function addDays(date: string, days: number) {
   const [y, m, d] = date.split('-').map(Number) as [number, number, number]
   return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10)
 }
-const TOMORROW = addDays(new Date().toISOString().slice(0, 10), 1)
+// the server's clock starts on a Saturday evening before a clock change: tomorrow is a Sunday
+const CLOCK_START = TEST_CLOCK.saturdayEveningBeforeChange
+const TOMORROW = utcDateOf(Date.parse(CLOCK_START), 1)
 
 function localMidnight(date: string, timezone: string) {
   return fromZonedTime(`${date}T00:00:00`, timezone).getTime()
@@ -69,7 +72,7 @@ describe('reminders for a date, with a live SMTP sink', () => {
 
   beforeAll(async () => {
     sink = await startMailSink({ port: 0 })
-    server = await startAppServer({ env: { SMTP_URL: sink.url, REMINDER_TIMER: 'off' } })
+    server = await startAppServer({ clockStart: CLOCK_START, env: { SMTP_URL: sink.url, REMINDER_TIMER: 'off' } })
     sites = (await (await signedInClient(server, 'coordinator@gloamline.test')).get('/api/sites')).body
   })
   afterAll(async () => {
@@ -166,7 +169,7 @@ describe('an SMTP outage, then recovery', () => {
     const databasePath = join(dir, 'outage.sqlite')
     const port = await freePort()
     let sink: Sink | undefined
-    let server = await startAppServer({ databasePath, env: { SMTP_URL: `smtp://127.0.0.1:${port}`, REMINDER_TIMER: 'off' } })
+    let server = await startAppServer({ clockStart: CLOCK_START, databasePath, env: { SMTP_URL: `smtp://127.0.0.1:${port}`, REMINDER_TIMER: 'off' } })
     try {
       const expected = expectedReminders(databasePath, TOMORROW)
       let coordinator = await signedInClient(server, 'coordinator@gloamline.test')
@@ -183,7 +186,7 @@ describe('an SMTP outage, then recovery', () => {
       // restart on the same database, with the mail server now listening on that port
       await server.stop()
       sink = await startMailSink({ port }) as Sink
-      server = await startAppServer({ databasePath, env: { SMTP_URL: sink.url, REMINDER_TIMER: 'off' } })
+      server = await startAppServer({ clockStart: CLOCK_START, databasePath, env: { SMTP_URL: sink.url, REMINDER_TIMER: 'off' } })
       coordinator = await signedInClient(server, 'coordinator@gloamline.test')
       const retried = await coordinator.post('/api/outbox/retry', {})
       expect(retried.body).toEqual({ retried: expected.size, sent: expected.size, failed: 0 })
@@ -202,7 +205,7 @@ describe('an SMTP outage, then recovery', () => {
 
   it('the timer sends due reminders by itself and retries with back-off until the mail server comes up', async () => {
     const port = await freePort()
-    const server = await startAppServer({ env: { SMTP_URL: `smtp://127.0.0.1:${port}`, REMINDER_TIMER_INTERVAL_MS: '300', MAIL_RETRY_BASE_MS: '300' } })
+    const server = await startAppServer({ clockStart: TEST_CLOCK.southernSummerSunday, env: { SMTP_URL: `smtp://127.0.0.1:${port}`, REMINDER_TIMER_INTERVAL_MS: '300', MAIL_RETRY_BASE_MS: '300' } })
     let sink: Sink | undefined
     try {
       // every site's reminder hour is midnight: tomorrow's reminders are due now everywhere

@@ -7,6 +7,7 @@ import { createHash } from 'node:crypto'
 import Database from 'better-sqlite3'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { ApiClient, signedInClient, startAppServer, type AppServer } from '../support/app-server'
+import { TEST_CLOCK } from '../support/clock'
 
 let server: AppServer
 let crew: ApiClient
@@ -25,11 +26,12 @@ async function findSunDownWindow(client: ApiClient, date: string) {
 }
 
 beforeAll(async () => {
-  server = await startAppServer({ env: { REMINDER_TIMER: 'off' } })
+  // a Sunday morning in the southern summer: tomorrow is a Monday, dark hours only in the north
+  server = await startAppServer({ clockStart: TEST_CLOCK.southernSummerSunday, env: { REMINDER_TIMER: 'off' } })
   crew = await signedInClient(server, 'crew@gloamline.test')
   const coordinator = await signedInClient(server, 'coordinator@gloamline.test')
   const crewId = (await crew.get('/api/auth/me')).body.user.id
-  const tomorrow = new Date(Date.now() + 86_400_000).toISOString().slice(0, 10)
+  const tomorrow = new Date(server.clock.now() + 86_400_000).toISOString().slice(0, 10)
   const window = await findSunDownWindow(coordinator, tomorrow)
   const reply = await coordinator.post('/api/shifts', {
     siteId: window.siteId, title: 'Beacon battery swap', light: 'daylight', assigneeIds: [crewId], overrideReason: 'test fixture',
@@ -97,7 +99,7 @@ describe('the crew member\'s today', () => {
     const start = Date.parse(`${site.days[0].date}T00:00:00Z`) - 86_400_000
     const hours = Array.from({ length: 96 }, (_, i) => ({ at: new Date(start + i * 3_600_000).toISOString(), temperatureC: -30, windKmh: 30, gustKmh: 45 }))
     const db = new Database(server.databasePath)
-    db.prepare('insert into forecasts (site_id, source, status, fetched_at, hours) values (?, ?, ?, ?, ?)').run(site.id, 'test fixture', 'ok', Date.now(), JSON.stringify(hours))
+    db.prepare('insert into forecasts (site_id, source, status, fetched_at, hours) values (?, ?, ?, ?, ?)').run(site.id, 'test fixture', 'ok', server.clock.now(), JSON.stringify(hours))
     db.close()
     const after = (await crew.get('/api/me/today')).body.sites.find((s: any) => s.id === site.id)
     expect(after.forecastNote).toMatch(/^Forecast fetched /)

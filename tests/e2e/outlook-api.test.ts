@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { signedInClient, startAppServer, type ApiClient, type AppServer } from '../support/app-server'
+import { TEST_CLOCK, zonedDateOf } from '../support/clock'
 
 // The outlook routes over HTTP against the built server and the demo scenario (invented sites and
 // people). The astronomy itself is checked against astronomy-engine in tests/unit; here: shapes,
@@ -12,7 +13,7 @@ let sites: { id: number, name: string, timezone: string }[]
 const siteNamed = (name: string) => sites.find(s => s.name === name)!
 
 function localToday(timezone: string) {
-  return new Intl.DateTimeFormat('en-CA', { timeZone: timezone }).format(new Date())
+  return zonedDateOf(server.clock.now(), timezone)
 }
 function addDays(date: string, days: number) {
   const [y, m, d] = date.split('-').map(Number) as [number, number, number]
@@ -20,7 +21,8 @@ function addDays(date: string, days: number) {
 }
 
 beforeAll(async () => {
-  server = await startAppServer()
+  // a Sunday morning in the southern summer: the far-south site is in midnight sun, the north dark
+  server = await startAppServer({ clockStart: TEST_CLOCK.southernSummerSunday })
   coordinator = await signedInClient(server, 'coordinator@gloamline.test')
   crew = await signedInClient(server, 'crew@gloamline.test')
   sites = (await coordinator.get('/api/sites')).body
@@ -142,7 +144,7 @@ describe('POST /api/slots/search', () => {
   it('says why when there is no slot: daylight at 78° N in polar night', async () => {
     const site = siteNamed('Kvitfjell Ice Camp')
     // next year's December, so the window is always in the future
-    const y = new Date().getUTCFullYear() + 1
+    const y = new Date(server.clock.now()).getUTCFullYear() + 1
     const reply = await coordinator.post('/api/slots/search', { siteId: site.id, durationMinutes: 60, light: 'daylight', from: `${y}-12-10`, to: `${y}-12-20`, assigneeIds: [3] })
     expect(reply.status).toBe(200)
     expect(reply.body.slots).toEqual([])

@@ -4,6 +4,7 @@
 import Database from 'better-sqlite3'
 import { startFakeForecastServer } from '../../scripts/fake-forecast.mjs'
 import { signedInClient, startAppServer, type ApiClient, type AppServer } from '../support/app-server'
+import { runningClock, TEST_CLOCK, utcDateOf } from '../support/clock'
 
 export interface SafetyWorld {
   server: AppServer
@@ -14,10 +15,17 @@ export interface SafetyWorld {
   stop: () => Promise<void>
 }
 
-/** Starts the fake forecast server and the app pointed at it, and signs in the demo accounts. */
-export async function startSafetyWorld(env: Record<string, string> = {}): Promise<SafetyWorld> {
-  const fake = await startFakeForecastServer({ port: 0 })
-  const server = await startAppServer({ env: { FORECAST_BASE_URL: fake.url, FORECAST_TIMEOUT_MS: '800', ...env } })
+// the clock of the world last started (the server's, which the fake forecast shares): "today" for dateFromToday
+let worldNow: () => number = runningClock(TEST_CLOCK.weekdayMorning)
+
+/**
+ * Starts the fake forecast server and the app pointed at it, and signs in the demo accounts. Both
+ * run on one test clock starting at `clockStart`, so the forecast covers the server's days.
+ */
+export async function startSafetyWorld(env: Record<string, string> = {}, clockStart: string = TEST_CLOCK.weekdayMorning): Promise<SafetyWorld> {
+  worldNow = runningClock(clockStart)
+  const fake = await startFakeForecastServer({ port: 0, now: worldNow })
+  const server = await startAppServer({ clockStart, env: { FORECAST_BASE_URL: fake.url, FORECAST_TIMEOUT_MS: '800', ...env } })
   const [coordinator, safety, crew] = await Promise.all([
     signedInClient(server, 'coordinator@gloamline.test'),
     signedInClient(server, 'safety@gloamline.test'),
@@ -43,9 +51,14 @@ export async function createDarkSite(coordinator: ApiClient, name: string) {
   return reply.body as { id: number, name: string }
 }
 
-/** The local date `days` from today (UTC). */
+/** The UTC date `days` from the test clock's today (never the machine's date). */
 export function dateFromToday(days: number): string {
-  return new Date(Date.now() + days * 86_400_000).toISOString().slice(0, 10)
+  return utcDateOf(worldNow(), days)
+}
+
+/** The test clock's now, in ms (the server under test has the same). */
+export function worldNowMs(): number {
+  return worldNow()
 }
 
 /** A 23:00–01:00 UTC shift on the dark site, `daysAhead` days from today. */

@@ -1,5 +1,5 @@
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
-import { createDarkShift, createDarkSite, dateFromToday, findPeopleIds, queryDatabase, startSafetyWorld, type SafetyWorld } from './safety-fixtures'
+import { createDarkShift, createDarkSite, dateFromToday, findPeopleIds, queryDatabase, startSafetyWorld, worldNowMs, type SafetyWorld } from './safety-fixtures'
 
 // Forecasts come from the local fake forecast server (scripts/fake-forecast.mjs) in its modes:
 // normal, slow (never answers: the client times out after FORECAST_TIMEOUT_MS), garbage (not JSON),
@@ -27,7 +27,7 @@ describe('forecast refresh', () => {
     expect(refreshed.body).toMatchObject({ refreshed: true, status: 'ok', forecast: { state: 'fresh' } })
     const stored = (await world.crew.get(`/api/sites/${siteId}/forecast`)).body
     expect(stored.latest.source).toBe(new URL(world.fake.url).host)
-    expect(Date.parse(stored.latest.fetchedAt)).toBeGreaterThan(Date.now() - 60_000)
+    expect(Date.parse(stored.latest.fetchedAt)).toBeGreaterThan(worldNowMs() - 60_000)
     expect(stored.latest.hours.length).toBeGreaterThan(24)
     const shift = await createDarkShift(world.coordinator, siteId, { daysAhead: 2, assigneeIds: crewIds.slice(0, 2) })
     const item = (await world.safety.get(`/api/review/${shift.id}`)).body
@@ -91,15 +91,15 @@ describe('a site whose first forecast fetch fails', () => {
 describe('site readings', () => {
   it('stores a reading entered by hand and uses it when no forecast covers the shift', async () => {
     const bare = (await createDarkSite(world.coordinator, 'Invented Reading Site')).id
-    const at = new Date(Date.now() - 30 * 60_000).toISOString()
+    const at = new Date(worldNowMs() - 30 * 60_000).toISOString()
     const added = await world.safety.post(`/api/sites/${bare}/observations`, { at, temperature: -22, wind: 25, units: 'metric' })
     expect(added.status).toBe(201)
     expect(added.body).toMatchObject({ temperatureC: -22, windKmh: 25, source: 'manual' })
     const listed = (await world.crew.get(`/api/sites/${bare}/observations`)).body
     expect(listed.observations).toHaveLength(1)
     // a shift starting within three hours of the reading: the figures come from it, marked as readings
-    const start = new Date(Date.now() + 60 * 60_000).toISOString()
-    const end = new Date(Date.now() + 2 * 60 * 60_000).toISOString()
+    const start = new Date(worldNowMs() + 60 * 60_000).toISOString()
+    const end = new Date(worldNowMs() + 2 * 60 * 60_000).toISOString()
     const shift = (await world.coordinator.post('/api/shifts', { siteId: bare, title: 'Reading-backed task', start, end, light: 'any', assigneeIds: crewIds.slice(0, 2) })).body
     const item = (await world.coordinator.get(`/api/review/${shift.id}`)).body
     expect(item.weather).toMatchObject({ basis: 'observations', observations: { count: 1 }, figures: { coldestTemperatureC: -22 } })
@@ -143,7 +143,7 @@ describe('site readings', () => {
   })
 
   it('lets only safety and coordinators enter readings', async () => {
-    const reply = await world.crew.post(`/api/sites/${siteId}/observations`, { at: new Date().toISOString(), temperature: -10, wind: 5 })
+    const reply = await world.crew.post(`/api/sites/${siteId}/observations`, { at: new Date(worldNowMs()).toISOString(), temperature: -10, wind: 5 })
     expect(reply.status).toBe(403)
   })
 })

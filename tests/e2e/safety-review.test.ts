@@ -1,12 +1,14 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { createDarkShift, createDarkSite, findPeopleIds, queryDatabase, startSafetyWorld, type SafetyWorld } from './safety-fixtures'
+import { TEST_CLOCK } from '../support/clock'
+import { createDarkShift, createDarkSite, dateFromToday, findPeopleIds, queryDatabase, startSafetyWorld, type SafetyWorld } from './safety-fixtures'
 
 let world: SafetyWorld
 let siteId: number
 let crewIds: number[]
 
 beforeAll(async () => {
-  world = await startSafetyWorld()
+  // midnight sun in the north; the test site at 60° N still has no civil light at midnight UTC
+  world = await startSafetyWorld({}, TEST_CLOCK.fridayMidnightSun)
   siteId = (await createDarkSite(world.coordinator, 'Invented Test Ridge')).id
   crewIds = (await findPeopleIds(world.coordinator)).crew
 })
@@ -105,7 +107,7 @@ describe('recording a decision', () => {
 
   it('answers 409 for a shift that is not flagged, naming why', async () => {
     // the same site and hours, but a lit work area: nothing is below requirement (DESIGN.md, "any")
-    const start = new Date(Date.now() + 6 * 86_400_000).toISOString().slice(0, 10)
+    const start = dateFromToday(6)
     const lit = (await world.coordinator.post('/api/shifts', { siteId, title: 'Lit yard work', start: `${start}T23:00:00Z`, end: `${start}T23:30:00Z`, light: 'any', assigneeIds: crewIds.slice(0, 2) })).body
     expect(lit.reviewState).toBe('not-needed')
     const reply = await world.safety.post(`/api/shifts/${lit.id}/review`, APPROVAL)

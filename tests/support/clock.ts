@@ -38,3 +38,10 @@ export function addCalendarDays(date: string, days: number): string {
 export function weekdayOf(date: string): number {
   return new Date(`${date}T12:00:00Z`).getUTCDay()
 }
+
+/** A clock for a test helper (a fake service beside the server): starts at `iso` and runs on (monotonic). */
+export function runningClock(iso: string): () => number {
+  const startMs = Date.parse(iso)
+  const origin = performance.now()
+  return () => startMs + (performance.now() - origin)
+}

@@ -29,13 +29,15 @@ function seededAt(iso: string) {
   expect(seedDemoScenario(db, 'not-a-real-hash', now)).toBe(true)
   const rows = db.select({ id: shifts.id, startAt: shifts.startAt, flagged: shifts.flagged, timezone: sites.timezone })
     .from(shifts).innerJoin(sites, eq(sites.id, shifts.siteId)).where(isNull(shifts.cancelledAt)).all()
+  const assigned = db.select({ shiftId: shiftAssignees.shiftId, personId: shiftAssignees.personId }).from(shiftAssignees).all()
   const crewId = db.select({ id: people.id }).from(people).where(eq(people.email, 'crew@gloamline.test')).get()!.id
   const crewShiftIds = new Set(db.select({ id: shiftAssignees.shiftId }).from(shiftAssignees).where(and(eq(shiftAssignees.personId, crewId))).all().map(r => r.id))
-  return { now, rows: rows.map(r => ({ ...r, date: zonedDateOf(r.startAt.getTime(), r.timezone) })), crewShiftIds }
+  const peopleOf = (shiftId: number) => assigned.filter(a => a.shiftId === shiftId).map(a => a.personId)
+  return { now, rows: rows.map(r => ({ ...r, date: zonedDateOf(r.startAt.getTime(), r.timezone), people: peopleOf(r.id) })), crewShiftIds }
 }
 
 describe('the demo scenario, seeded on any date', () => {
-  it.each(INSTANTS)('seeded at %s: the crew account works tomorrow, every day of two weeks has flagged and clear work', (iso) => {
+  it.each(INSTANTS)('seeded at %s: the crew account works tomorrow, every day of two weeks has flagged and clear work and at least 4 people at work', (iso) => {
     const { now, rows, crewShiftIds } = seededAt(iso)
     // the crew demo account's sites all use Svalbard's zone; "tomorrow" is the local date there
     const tomorrow = zonedDateOf(now, 'Arctic/Longyearbyen', 1)
@@ -46,6 +48,7 @@ describe('the demo scenario, seeded on any date', () => {
       const onDay = rows.filter(r => r.date === date)
       expect(onDay.some(r => r.flagged), `flagged work on ${date}`).toBe(true)
       expect(onDay.some(r => !r.flagged), `clear work on ${date}`).toBe(true)
+      expect(new Set(onDay.flatMap(r => r.people)).size, `people at work on ${date}`).toBeGreaterThanOrEqual(4)
       weekdays.add(weekdayOf(date))
     }
     expect(weekdays.size).toBe(7)
