@@ -1,7 +1,7 @@
 // A local stand-in for an hourly forecast API in the open Open-Meteo shape, for tests and the demo.
 // Forecasts are invented but deterministic: the same coordinates and hour always give the same values.
 // Plain Node (no dependencies). Run directly: `node scripts/fake-forecast.mjs` listens on
-// FORECAST_FAKE_PORT (default 3055) on 127.0.0.1 and prints its URL.
+// FORECAST_FAKE_PORT (default 3055; a free port when that one is taken) on 127.0.0.1 and prints its URL.
 import { createServer } from 'node:http'
 import { pathToFileURL } from 'node:url'
 
@@ -232,8 +232,9 @@ function checkFakeMode(mode) {
 }
 
 async function runStandalone() {
-  const port = Number(process.env.FORECAST_FAKE_PORT ?? 3055)
-  const fake = await startFakeForecastServer({ port })
+  const { startOnPreferredPort } = await import('./ports.mjs')
+  const { service: fake, note } = await startOnPreferredPort('the fake forecast server', Number(process.env.FORECAST_FAKE_PORT ?? 3055), port => startFakeForecastServer({ port }))
+  if (note) console.log(note)
   console.log(`Fake forecast server listening at ${fake.url} (GET /v1/forecast)`)
   const stop = () => fake.close().then(() => process.exit(0))
   process.once('SIGINT', stop)
@@ -242,7 +243,7 @@ async function runStandalone() {
 
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
   runStandalone().catch((error) => {
-    console.error(`Fake forecast server failed to start: ${error.message}`)
+    console.error(`Fake forecast server failed to start: ${String(error?.message ?? error).split('\n')[0]}`)
     process.exit(1)
   })
 }
