@@ -23,6 +23,9 @@ function readEnv(env: Record<string, string | undefined>) {
     requestLog: env.REQUEST_LOG !== 'off',
     reminderTimer: env.REMINDER_TIMER !== 'off',
     reminderIntervalMs: Math.max(positiveNumber(env.REMINDER_TIMER_INTERVAL_MS) ?? 60_000, 100),
+    // the field alert check runs at least once a minute (DESIGN.md); FIELD_ALERT_TIMER=off stops it
+    fieldAlertTimer: env.FIELD_ALERT_TIMER !== 'off',
+    fieldAlertIntervalMs: Math.min(Math.max(positiveNumber(env.FIELD_ALERT_INTERVAL_MS) ?? 30_000, 100), 60_000),
     mailRetryBaseMs: positiveNumber(env.MAIL_RETRY_BASE_MS),
     forecastBaseUrl: env.FORECAST_BASE_URL || '',
     forecastTimeoutMs: positiveNumber(env.FORECAST_TIMEOUT_MS) ?? 5000,
