@@ -2,7 +2,7 @@
 // light state. Pure: imports neither Vue nor Nitro.
 import type { BandKind, LightDay, LightRequirement } from './light'
 import { formatDuration } from './format'
-import { REVIEW_REASON_WORDS, REVIEW_STATE_WORDS, describeReviewReason } from './review'
+import { REVIEW_REASON_WORDS, REVIEW_STATE_WORDS, describeReviewReason, describeReviewReasonFigure } from './review'
 import type { ReviewState, ShiftConflict, ShiftConflictKind as ConflictKind, ShiftReply as ShiftItem } from './types/shift'
 
 export type { ReviewState, ShiftConflict, ShiftReply as ShiftItem } from './types/shift'
@@ -69,6 +69,9 @@ export interface ImportPreviewRow {
   row: number
   ok: boolean
   errors: string[]
+  // shifts: add a shift, change the planned shift `shiftId`, or nothing (same as planned)
+  action?: 'create' | 'update' | 'unchanged'
+  shiftId?: number
   notes?: string[]
   timeNotes?: string[]
   shift?: { siteId: number, siteName: string, title: string, start: string, end: string, light: LightRequirement, assigneeIds: number[] }
@@ -125,6 +128,7 @@ export function describeLightState(shift: LightStateShift): LightState {
   const { flagged, minutesBelow, requirement } = shift.lightCheck
   const reasons = describeShiftReasons(shift)
   const why = reasons.length ? reasons.join('; ') : (flagged ? `${formatDuration(minutesBelow)} below ${REQUIREMENT_WORDS[requirement]}` : '')
+  const figures = shift.reviewReasonDetails?.map(r => describeReviewReasonFigure(r, shift.timezone)).join('; ') ?? why
   const reasonWords = (shift.reviewReasonDetails ?? (flagged ? [{ reason: 'light' as const }] : [])).map(r => REVIEW_REASON_WORDS[r.reason].toLowerCase())
   const note = shift.review?.current && shift.review.note ? ` Note: ${shift.review.note}` : ''
   if (shift.reviewState === 'not-needed') {
@@ -136,7 +140,7 @@ export function describeLightState(shift: LightStateShift): LightState {
   if (shift.reviewState === 'rejected') return { key: 'rejected', label: word, short: word, detail: `${why}.${note}` }
   if (shift.reviewState === 'changes-requested') return { key: 'changes-requested', label: word, short: word, detail: `${why}.${note}` }
   const short = reasonWords.length ? `${word}: ${reasonWords.join(', ')}` : word
-  return { key: 'flagged', label: why ? `${word}: ${why}` : word, short, detail: why ? `Why: ${why}.` : '' }
+  return { key: 'flagged', label: figures ? `${word}: ${figures}` : word, short, detail: why ? `Why: ${why}.` : '' }
 }
 
 const WALL_RE = /^\d{4}-\d{2}-\d{2}T([01]\d|2[0-3]):[0-5]\d$/

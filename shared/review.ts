@@ -74,11 +74,11 @@ export const REVIEW_REASON_WORDS: Record<ReviewReason, string> = {
 }
 
 /** A review reason with the figures behind it, as stored on the shift and sent on every reply. */
-export type ReviewReasonDetail =
-  | { reason: 'light', minutesBelow: number, requirement: LightRequirement }
-  | { reason: 'cold', windChillC: number | null, at: string | null, limitC: number, stopWork: boolean, temperatureC: number, windKmh: number, basis: 'forecast' | 'observations' }
-  | { reason: 'lone', minutesDark: number }
-  | { reason: 'long', minutes: number, maxMinutes: number }
+export type ReviewReasonDetail
+  = | { reason: 'light', minutesBelow: number, requirement: LightRequirement }
+    | { reason: 'cold', windChillC: number | null, at: string | null, limitC: number, stopWork: boolean, temperatureC: number, windKmh: number, basis: 'forecast' | 'observations' }
+    | { reason: 'lone', minutesDark: number }
+    | { reason: 'long', minutes: number, maxMinutes: number }
 
 const LIGHT_NEED_WORDS: Record<LightRequirement, string> = { daylight: 'daylight', civil: 'civil light', any: 'any light' }
 
@@ -116,4 +116,21 @@ export interface ReviewShiftSnapshot {
   light: LightRequirement
   travelMinutes: number
   assignees: string[]
+}
+
+interface DraftLike {
+  siteId: number | null
+  start: string
+  end: string
+  light: LightRequirement
+  assigneeIds: number[]
+  travelMinutes?: number
+}
+
+/** Whether a shift edit changes what a review decided on (time, site, light need, travel or people). */
+export function wouldReopenReview(before: DraftLike, after: DraftLike): boolean {
+  const ids = (list: number[]) => [...list].sort((a, b) => a - b).join(',')
+  return before.siteId !== after.siteId || before.start !== after.start || before.end !== after.end
+    || before.light !== after.light || ids(before.assigneeIds) !== ids(after.assigneeIds)
+    || (before.travelMinutes ?? 0) !== (after.travelMinutes ?? 0)
 }

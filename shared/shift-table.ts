@@ -1,5 +1,7 @@
 // Filtering, sorting and CSV rows for the shift list. Pure: imports neither Vue nor Nitro.
-import { describeLightState, type CrewItem, type ReviewState, type ShiftItem } from './planning'
+import { describeLightState, describeShiftReasons, type CrewItem, type PersonItem, type ReviewState, type ShiftItem } from './planning'
+import { REVIEW_STATE_WORDS, describeMitigation } from './review'
+import { fromWallClock, toWallClock } from './format'
 
 export interface ShiftFilters {
   siteId: number | null
@@ -46,18 +48,44 @@ export function sortShifts(shifts: ShiftItem[], key: ShiftSortKey, direction: 'a
   })
 }
 
-/** One CSV row per shown shift, with ISO 8601 times in the site's offset (LOOK.md: ISO in exports). */
-export function toShiftCsvRows(shifts: ShiftItem[]) {
+/**
+ * The export's columns: first the ones the import reads (id, site, title, start, end, light, assignees,
+ * notes), so an exported file can be edited and imported back as it is; then read-only columns the
+ * import ignores.
+ */
+export const SHIFT_CSV_COLUMNS = [
+  'id', 'site', 'title', 'start', 'end', 'light', 'assignees', 'notes',
+  'timezone', 'light_state', 'minutes_below', 'review_state', 'review_reasons', 'review_note', 'mitigations', 'people', 'conflicts', 'conflict_reason'
+] as const
+
+/**
+ * A time as the import reads it: `YYYY-MM-DD HH:mm` on the site's clock; an instant that wall clock
+ * does not name back (the second pass of an autumn hour) keeps its offset, ISO 8601.
+ */
+export function formatCsvTime(iso: string, timezone: string): string {
+  const wall = toWallClock(iso, timezone).slice(0, 16)
+  return fromWallClock(wall, timezone) === Date.parse(iso) ? wall.replace('T', ' ') : iso
+}
+
+/** One CSV row per shown shift; people as e-mail addresses (the import's key), times on the site's clock. */
+export function toShiftCsvRows(shifts: ShiftItem[], people: Pick<PersonItem, 'id' | 'email'>[] = []) {
+  const emailOf = new Map(people.map(p => [p.id, p.email]))
   return shifts.map(s => ({
-    start: s.start,
-    end: s.end,
-    timezone: s.timezone,
+    id: s.id,
     site: s.siteName,
-    task: s.title,
-    light_needed: s.light,
+    title: s.title,
+    start: formatCsvTime(s.start, s.timezone),
+    end: formatCsvTime(s.end, s.timezone),
+    light: s.light,
+    assignees: s.assigneeIds.map(id => emailOf.get(id) ?? '').filter(Boolean).join(';'),
+    notes: s.notes,
+    timezone: s.timezone,
     light_state: describeLightState(s).label,
     minutes_below: s.lightCheck.minutesBelow,
-    review_state: s.reviewState,
+    review_state: REVIEW_STATE_WORDS[s.reviewState],
+    review_reasons: describeShiftReasons(s).join('; '),
+    review_note: s.review?.current ? s.review.note : '',
+    mitigations: s.review?.current ? s.review.mitigations.map(describeMitigation).join('; ') : '',
     people: s.assignees.map(a => a.name).join('; '),
     conflicts: (s.conflicts ?? []).map(c => c.message).join('; '),
     conflict_reason: s.conflictOverride ?? ''

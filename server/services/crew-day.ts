@@ -7,7 +7,7 @@ import { people, shiftAssignees, shifts, sites, type Person, type Shift, type Si
 import type { LightPeriod, LightPeriodMs, LightRequirement } from '../../shared/light'
 import { COLD_CAUTIONS } from '../../shared/cold'
 import { addDays, formatDate, formatDuration, formatLocalTime, formatUtcOffset } from '../../shared/format'
-import { describeMitigation } from '../../shared/review'
+import { REVIEW_STATE_WORDS, describeMitigation, describeReviewReason } from '../../shared/review'
 import type { AppDatabase } from '../utils/db'
 import { computeLightDaysMs, computeLightPeriodsInRange } from '../core/light/index'
 import { MAX_SHIFT_MS, loadAssignees, loadLatestReviews, type ShiftReviewSummary } from './shifts'
@@ -84,6 +84,8 @@ export interface CrewShift {
   profileText: string
   reviewState: Shift['reviewState']
   reviewWords: string
+  /** Why the shift went to safety review, each in words with its figure. */
+  reviewReasons: string[]
   /** A decision was recorded but the shift changed after it. */
   reviewChanged: boolean
   reviewNote: string
@@ -250,14 +252,16 @@ function describeProfile(minutes: { day: number, civil: number, dark: number }):
 }
 
 /** Plain words for a shift's review state and latest decision. */
+// Each begins with the state's one word (REVIEW_STATE_WORDS), the same as on every other screen.
 export function describeReviewWords(state: Shift['reviewState'], review: ShiftReviewSummary | null): string {
-  const who = review ? ` (${review.reviewerName})` : ''
+  const who = review ? ` by ${review.reviewerName}` : ''
+  const word = REVIEW_STATE_WORDS[state]
   switch (state) {
-    case 'not-needed': return 'No safety review needed'
-    case 'pending': return review && !review.current ? 'Waiting for safety review again: the shift changed after the last decision' : 'Waiting for safety review'
-    case 'approved': return `Approved in safety review${who}`
-    case 'rejected': return `Rejected in safety review${who}: speak to your coordinator before any of this work starts`
-    case 'changes-requested': return `Safety review asked for changes${who}: speak to your coordinator before starting`
+    case 'not-needed': return word
+    case 'pending': return review && !review.current ? `${word} again: the shift changed after the last decision` : word
+    case 'approved': return `${word}${who}`
+    case 'rejected': return `${word}${who}: speak to your coordinator before any of this work starts`
+    case 'changes-requested': return `${word}${who}: speak to your coordinator before starting`
   }
 }
 
@@ -321,6 +325,8 @@ export interface ShiftDescriptionInput {
   review: ShiftReviewSummary | null
   forecast: SiteForecastState
   observations: ReturnType<typeof loadSiteObservations>
+  /** The shift's light bands when the caller has them already (the feed slices one trace per site). */
+  bands?: LightPeriodMs[]
 }
 
 /** One shift as a crew member reads it: when, what light it needs and gets, the review, weather and cautions. */
@@ -328,7 +334,7 @@ export function describeCrewShift(input: ShiftDescriptionInput): CrewShift {
   const { row, site, zone } = input
   const startMs = row.startAt.getTime()
   const endMs = row.endAt.getTime()
-  const bands: LightPeriodMs[] = computeLightPeriodsInRange(site.latitude, site.longitude, startMs, endMs)
+  const bands: LightPeriodMs[] = input.bands ?? computeLightPeriodsInRange(site.latitude, site.longitude, startMs, endMs)
   const sums = sumBandMinutes(bands)
   const bandMinutes = { day: sums.day, civil: sums.civil, dark: sums.nautical + sums.astronomical + sums.night }
   const weather = describeWindowWeather(input.forecast, input.observations, { startMs, endMs, bands, timezone: zone })
@@ -341,6 +347,7 @@ export function describeCrewShift(input: ShiftDescriptionInput): CrewShift {
     lightState: describeLightState(row.light, row.minutesBelow, bandMinutes.dark),
     bandMinutes, profileText: describeProfile(bandMinutes),
     reviewState: row.reviewState, reviewWords: describeReviewWords(row.reviewState, input.review),
+    reviewReasons: (row.reviewReasons ?? []).map(r => describeReviewReason(r, zone)),
     reviewChanged: row.reviewState === 'pending' && input.review !== null && !input.review.current,
     reviewNote: input.review?.current ? input.review.note : '',
     mitigations: input.review?.current ? input.review.mitigations.map(describeMitigation) : [],

@@ -19,7 +19,7 @@ import type { AppDatabase } from '../utils/db'
 import { recordAudit } from './audit'
 import { buildRotationQueueGroups, splitRotationRows } from './rotation-queue'
 import { conflict, notFound } from '../utils/errors'
-import { checkShiftLight } from '../core/light/check'
+import { checkShiftLight, computeOutingWindow } from '../core/light/check'
 import { compareReviewQueueItems, shapeReviewQueueItem, type ReviewQueueItem } from '../core/review/queue'
 import { loadAssignees, loadLatestReviews, loadShiftRowConflicts, toShiftView, type ShiftReviewSummary } from './shifts'
 import type { ShiftConflict } from '../core/planning/conflicts'
@@ -220,7 +220,7 @@ export function reassessSiteReviewReasons(db: AppDatabase, siteId: number, nowMs
     const reopened: number[] = []
     for (const row of rows) {
       const reasons = assessShiftReview(tx, {
-        site, window: { fromMs: row.startAt.getTime(), toMs: row.endAt.getTime() }, startMs: row.startAt.getTime(), endMs: row.endAt.getTime(),
+        site, window: computeOutingWindow(row.startAt.getTime(), row.endAt.getTime(), row.travelMinutes), startMs: row.startAt.getTime(), endMs: row.endAt.getTime(),
         lightCheck: { flagged: row.flagged, minutesBelow: row.minutesBelow, requirement: row.light }, assigneeCount: counts.get(row.id) ?? 0, nowMs
       })
       if (JSON.stringify(reasons) === JSON.stringify(row.reviewReasons)) continue
@@ -375,4 +375,19 @@ export function describeChangesSinceDecision(db: Pick<AppDatabase, 'select'>, ro
     ['people', before.assignees.join(', ') || 'nobody', now.assignees.join(', ') || 'nobody']
   ]
   return pairs.filter(([, a, b]) => a !== b).map(([field, a, b]) => ({ field, label: CHANGE_LABELS[field], before: a, after: b }))
+}
+
+/**
+ * Every live shift whose latest decision is a rejection or a send-back and that has not ended yet,
+ * soonest first: the coordinator's list of work to re-plan, however far ahead it lies.
+ */
+export function listReviewOutcomes(db: AppDatabase, nowMs = clockNowMs()) {
+  const rows = db.select().from(shifts)
+    .where(and(isNull(shifts.cancelledAt), inArray(shifts.reviewState, ['rejected', 'changes-requested']), gt(shifts.endAt, new Date(nowMs))))
+    .orderBy(asc(shifts.startAt), asc(shifts.id)).all()
+  if (!rows.length) return []
+  const siteById = new Map(db.select().from(sites).all().map(s => [s.id, s]))
+  const assignees = loadAssignees(db, rows.map(r => r.id))
+  const latest = loadLatestReviews(db, rows)
+  return rows.map(row => toShiftView(row, siteById.get(row.siteId)!, assignees.get(row.id) ?? [], latest.get(row.id) ?? null))
 }

@@ -1,18 +1,20 @@
 // Shift import from a spreadsheet: every row is validated and light-checked in a preview; the import
 // writes only when every row is valid, all rows in one transaction, and refuses the whole file
 // otherwise. Conflicts are warnings, as on the form: they never make a row invalid.
-import { createError } from 'h3'
 import { and, inArray, isNull, lt, gt } from 'drizzle-orm'
 import { LIGHT_REQUIREMENTS, people, shiftAssignees, shifts, sites, type Shift, type Site } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
+import { fieldError } from '../utils/errors'
 import { recordAudit } from './audit'
 import { checkShiftLight } from '../core/light/check'
 import { addConflictNeighbours, checkConflictsWith, loadConflictContext } from './conflict-context'
 import type { NeighbourShift, ShiftConflict } from '../core/planning/conflicts'
 import { readCsvTable, writeCsvText, type CsvRow } from '../core/planning/csv'
 import { announceShiftChange } from './shift-notices'
-import { MAX_SHIFT_MS } from './shifts'
-import { initialReviewState } from './shift-writes'
+import { MAX_SHIFT_MS, loadAssignees } from './shifts'
+import { initialReviewState, updateShift } from './shift-writes'
+import leven from 'leven'
+import { assessShiftReview } from './reviews'
 import { formatZonedIso, localDateOf, resolveLocalOrInstant } from '../core/time/zoned'
 import { addDays } from '../../shared/format'
 import { resolveWallTimeOnce } from '../core/time/instant-format'
@@ -21,6 +23,8 @@ import { nowMs as clockNowMs } from '../core/time/clock'
 
 export const SHIFT_IMPORT_COLUMNS = ['site', 'title', 'start', 'end', 'light', 'assignees', 'notes']
 const REQUIRED_COLUMNS = ['site', 'title', 'start', 'end', 'light', 'assignees']
+// `id` (from an export of the shift list) names a planned shift: the row updates it instead of adding one
+const OPTIONAL_COLUMNS = ['notes', 'id']
 const LOCAL_TIME_RE = /^(\d{4})-(\d{2})-(\d{2})[ T](\d{2}):(\d{2})(?::(\d{2}))?$/
 const INSERT_CHUNK = 400
 // Up to this many imported shifts are announced one by one, as the form would (safety officers hear
@@ -43,6 +47,9 @@ export interface ShiftImportRow {
   row: number
   ok: boolean
   errors: string[]
+  /** What importing the row does: add a shift, change the planned shift `shiftId`, or nothing (same as planned). */
+  action?: 'create' | 'update' | 'unchanged'
+  shiftId?: number
   shift?: ImportedShift
   lightCheck?: { requirement: Shift['light'], minutesBelow: number, flagged: boolean }
   conflicts?: ShiftConflict[]
@@ -57,6 +64,7 @@ export interface ShiftImportPreview {
 
 interface ParsedRow {
   preview: ShiftImportRow
+  idCell?: string
   site?: Site
   startMs?: number
   endMs?: number
@@ -64,13 +72,15 @@ interface ParsedRow {
 
 type Reader = Pick<AppDatabase, 'select'>
 
-/** The downloadable template: the header and two example rows of the demo scenario, dated tomorrow. */
+/**
+ * The downloadable template: the header and two generic example rows, dated tomorrow (UTC). The site
+ * names and addresses are placeholders to replace with your own, not any team's data.
+ */
 export function buildShiftImportTemplate(nowMs = clockNowMs()): string {
-  const camp = addDays(localDateOf(nowMs, 'Arctic/Longyearbyen'), 1)
-  const yard = addDays(localDateOf(nowMs, 'Europe/Oslo'), 1)
+  const day = addDays(localDateOf(nowMs, 'UTC'), 1)
   return writeCsvText(SHIFT_IMPORT_COLUMNS, [
-    ['Kvitfjell Ice Camp', 'Snow-machine route check', `${camp} 09:00`, `${camp} 13:00`, 'civil', 'crew@gloamline.test;liv.aasen@gloamline.test', 'Carry the route flags; bear watch on the ridge'],
-    ['Ravnvik Pipeline Yard', 'Crossing inspection', `${yard} 10:30`, `${yard} 13:30`, 'daylight', 'sofia.marchetti@gloamline.test', '']
+    ['Your site name', 'Task in a few words', `${day} 09:00`, `${day} 13:00`, 'civil', 'first.person@example.test;second.person@example.test', 'Anything the crew should know'],
+    ['Your site name', 'Another task', `${day} 10:30`, `${day} 13:30`, 'daylight', 'first.person@example.test', '']
   ])
 }
 
@@ -114,13 +124,31 @@ function loadLookups(db: Reader): Lookups {
   return { sitesByName, peopleByEmail }
 }
 
+// Folds case and accents, so 'Ravnvik yard' and 'Rávnvik Yard' compare as the same letters.
+function foldName(name: string): string {
+  return name.normalize('NFD').replace(/\p{M}/gu, '').toLocaleLowerCase('en').replace(/\s+/g, ' ').trim()
+}
+
+/** The site name closest to a name that matched none (edit distance on folded names), if near enough. */
+export function suggestSiteName(name: string, names: string[]): string | null {
+  const wanted = foldName(name)
+  let best: { name: string, distance: number } | null = null
+  for (const candidate of names) {
+    const distance = leven(wanted, foldName(candidate))
+    if (!best || distance < best.distance) best = { name: candidate, distance }
+  }
+  // near: a slip of a few letters, scaled to the name's length (at most a third of it)
+  return best && best.distance <= Math.max(2, Math.floor(wanted.length / 3)) ? best.name : null
+}
+
 function readSite(name: string, lookups: Lookups, errors: string[]): Site | undefined {
   if (!name) {
     errors.push('site: required')
     return undefined
   }
   const found = lookups.sitesByName.get(name.toLocaleLowerCase('en')) ?? []
-  if (!found.length) errors.push(`site: no site named “${name}”`)
+  const suggestion = found.length ? null : suggestSiteName(name, [...lookups.sitesByName.values()].flat().filter(s => !s.archivedAt).map(s => s.name))
+  if (!found.length) errors.push(`site: no site named “${name}”${suggestion ? `; did you mean “${suggestion}”?` : ''}`)
   else if (found.length > 1) errors.push(`site: more than one site is named “${name}”; rename one first`)
   else if (found[0]!.archivedAt) errors.push(`site: “${found[0]!.name}” is archived`)
   else return found[0]
@@ -161,9 +189,15 @@ function readTimes(row: CsvRow, site: Site | undefined, errors: string[], notes:
   return { startMs: start.ms, endMs: end.ms }
 }
 
+// A spreadsheet export guards cells starting with = + - @ with a leading apostrophe (so they are not
+// run as formulas); the apostrophe is not part of the text.
+function unguardCell(value: string): string {
+  return value.replace(/^'(?=[=+\-@\t\r])/, '')
+}
+
 function readTextCells(row: CsvRow, errors: string[]) {
-  const title = row.cells.get('title') ?? ''
-  const notes = row.cells.get('notes') ?? ''
+  const title = unguardCell(row.cells.get('title') ?? '')
+  const notes = unguardCell(row.cells.get('notes') ?? '')
   if (!title) errors.push('title: required')
   else if (title.length > 200) errors.push('title: at most 200 characters')
   if (notes.length > 4000) errors.push('notes: at most 4000 characters')
@@ -183,7 +217,47 @@ function parseShiftRow(row: CsvRow, lookups: Lookups): ParsedRow {
     preview.shift = { siteId: site.id, siteName: site.name, title, start: formatZonedIso(startMs, site.timezone), end: formatZonedIso(endMs, site.timezone), light, assigneeIds, notes }
     preview.timeNotes = timeNotes
   }
-  return { preview, site, startMs, endMs }
+  return { preview, site, startMs, endMs, idCell: row.cells.get('id') || undefined }
+}
+
+const ID_RE = /^\d{1,12}$/
+
+/**
+ * Rows with an `id` name a planned shift: the same site, title, times, light, people and notes is
+ * `unchanged` (nothing is written); anything different is an `update` of that shift.
+ */
+function matchPlannedShifts(db: Reader, parsed: ParsedRow[]) {
+  const ids = parsed.map(p => p.idCell).filter((v): v is string => Boolean(v))
+  if (!ids.length) {
+    for (const p of parsed) if (p.preview.shift) p.preview.action = 'create'
+    return
+  }
+  const wanted = [...new Set(ids.filter(v => ID_RE.test(v)).map(Number))]
+  const planned = new Map(wanted.length ? db.select().from(shifts).where(inArray(shifts.id, wanted)).all().map(r => [r.id, r]) : [])
+  const crewOf = wanted.length ? loadAssignees(db, wanted) : new Map<number, { id: number }[]>()
+  const seen = new Map<number, number>()
+  for (const p of parsed) {
+    if (!p.idCell) {
+      if (p.preview.shift) p.preview.action = 'create'
+      continue
+    }
+    const row = ID_RE.test(p.idCell) ? planned.get(Number(p.idCell)) : undefined
+    if (!row) p.preview.errors.push(`id: no planned shift #${p.idCell} (leave id empty to add a new shift)`)
+    else if (row.cancelledAt) p.preview.errors.push(`id: shift #${row.id} was cancelled`)
+    else if (seen.has(row.id)) p.preview.errors.push(`id: shift #${row.id} is also on row ${seen.get(row.id)}`)
+    if (p.preview.errors.length || !row) {
+      rejectRow(p.preview)
+      continue
+    }
+    seen.set(row.id, p.preview.row)
+    p.preview.shiftId = row.id
+    const shift = p.preview.shift
+    if (!shift) continue
+    const sameIds = [...shift.assigneeIds].sort((a, b) => a - b).join(',') === (crewOf.get(row.id) ?? []).map(a => a.id).sort((a, b) => a - b).join(',')
+    const same = shift.siteId === row.siteId && shift.title === row.title && p.startMs === row.startAt.getTime() && p.endMs === row.endAt.getTime()
+      && shift.light === row.light && shift.notes === row.notes && sameIds
+    p.preview.action = same ? 'unchanged' : 'update'
+  }
 }
 
 function duplicateKey(siteId: number, title: string, startMs: number, endMs: number) {
@@ -215,6 +289,7 @@ function rejectRow(preview: ShiftImportRow) {
   preview.ok = false
   delete preview.shift
   delete preview.timeNotes
+  delete preview.action
 }
 
 // Each row is a pseudo-shift with id −row, so rows of the same file are checked against each other too.
@@ -243,11 +318,12 @@ function checkReadyRows(db: Reader, parsed: ParsedRow[]) {
 
 /** Validates a shift CSV row by row, with the light check and conflicts of every valid row; writes nothing. */
 export function previewShiftImport(db: Reader, csv: string): ShiftImportPreview {
-  const table = readCsvTable(csv, REQUIRED_COLUMNS, ['notes'])
+  const table = readCsvTable(csv, REQUIRED_COLUMNS, OPTIONAL_COLUMNS)
   if (table.errors.length) return { valid: false, rows: [], errors: table.errors }
   const lookups = loadLookups(db)
   const parsed = table.rows.map(row => parseShiftRow(row, lookups))
-  markDuplicates(db, parsed)
+  matchPlannedShifts(db, parsed)
+  markDuplicates(db, parsed.filter(p => p.preview.action !== 'update' && p.preview.action !== 'unchanged'))
   checkReadyRows(db, parsed)
   const rows = parsed.map(p => p.preview)
   return { valid: rows.every(r => r.ok), rows, errors: [] }
@@ -256,13 +332,18 @@ export function previewShiftImport(db: Reader, csv: string): ShiftImportPreview 
 function insertImportedShifts(tx: Parameters<Parameters<AppDatabase['transaction']>[0]>[0], actorId: number, rows: ShiftImportRow[]) {
   const ids: number[] = []
   const links: { shiftId: number, personId: number }[] = []
+  const siteById = new Map(tx.select().from(sites).all().map(s => [s.id, s]))
   for (const r of rows) {
     const shift = r.shift!
     const check = r.lightCheck!
+    const startMs = Date.parse(shift.start)
+    const endMs = Date.parse(shift.end)
+    const site = siteById.get(shift.siteId)!
+    const reviewReasons = assessShiftReview(tx, { site, window: { fromMs: startMs, toMs: endMs }, startMs, endMs, lightCheck: check, assigneeCount: shift.assigneeIds.length })
     const inserted = tx.insert(shifts).values({
-      siteId: shift.siteId, title: shift.title, startAt: new Date(Date.parse(shift.start)), endAt: new Date(Date.parse(shift.end)),
+      siteId: shift.siteId, title: shift.title, startAt: new Date(startMs), endAt: new Date(endMs),
       light: shift.light, notes: shift.notes, minutesBelow: check.minutesBelow, flagged: check.flagged,
-      reviewState: initialReviewState(check.flagged), createdBy: actorId
+      reviewReasons, reviewState: initialReviewState(reviewReasons.length > 0), createdBy: actorId
     }).returning({ id: shifts.id }).get()
     ids.push(inserted.id)
     for (const personId of shift.assigneeIds) links.push({ shiftId: inserted.id, personId })
@@ -281,12 +362,20 @@ export function importShiftsFromCsv(db: AppDatabase, actorId: number, csv: strin
     if (!preview.valid) {
       const bad = preview.rows.filter(r => !r.ok).length
       const message = preview.errors[0] ?? `${bad} of ${preview.rows.length} rows have errors; nothing was imported`
-      throw createError({ statusCode: 400, statusMessage: 'Bad Request', message, data: { ...preview, issues: [{ field: 'csv', message }] } })
+      throw fieldError('csv', message, { data: { ...preview }, title: message })
     }
-    const ids = insertImportedShifts(tx, actorId, preview.rows)
-    const flagged = preview.rows.filter(r => r.lightCheck!.flagged).length
-    recordAudit(tx, actorId, 'shift.import', 'shift', null, { created: ids.length, flagged, ids, notified: ids.length <= IMPORT_NOTICE_LIMIT })
-    return { created: ids.length, ids, notified: ids.length <= IMPORT_NOTICE_LIMIT }
+    const ids = insertImportedShifts(tx, actorId, preview.rows.filter(r => r.action === 'create'))
+    // rows naming a planned shift change it as the form would (re-check, re-open a decided review);
+    // better-sqlite3 runs updateShift's own transaction as a savepoint inside this one
+    const updates = preview.rows.filter(r => r.action === 'update')
+    for (const r of updates) {
+      const s = r.shift!
+      updateShift(db, { id: actorId }, r.shiftId!, { siteId: s.siteId, title: s.title, start: s.start, end: s.end, light: s.light, assigneeIds: s.assigneeIds, notes: s.notes })
+    }
+    const unchanged = preview.rows.filter(r => r.action === 'unchanged').length
+    const flagged = preview.rows.filter(r => r.action === 'create' && r.lightCheck!.flagged).length
+    recordAudit(tx, actorId, 'shift.import', 'shift', null, { created: ids.length, updated: updates.map(r => r.shiftId), unchanged, flagged, ids, notified: ids.length <= IMPORT_NOTICE_LIMIT })
+    return { created: ids.length, updated: updates.length, unchanged, ids, notified: ids.length <= IMPORT_NOTICE_LIMIT }
   })
   if (result.notified) {
     for (const id of result.ids) announceShiftChange({ kind: 'created', shiftId: id, actorId, previousAssigneeIds: [], material: true })

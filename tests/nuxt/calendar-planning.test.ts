@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { buildBandEvents, buildShiftEvents, calendarRange, summariseDay, wallFromCalendarDate } from '../../shared/calendar'
 import { validateShiftDraft, type ShiftDraft, type ShiftItem, type SiteItem } from '../../shared/planning'
-import { filterShifts, sortShifts, toShiftCsvRows } from '../../shared/shift-table'
+import { filterShifts, formatCsvTime, sortShifts, toShiftCsvRows } from '../../shared/shift-table'
 import { useCalendarStore } from '../../stores/calendar'
 
 // Invented demo data (not a reference).
@@ -112,9 +112,20 @@ describe('the shift list', () => {
     expect(sortShifts(shifts.slice(0, 2), 'minutesBelow', 'desc').map(s => s.id)).toEqual([2, 1])
   })
 
-  it('exports ISO times with the site offset, one row per shown shift', () => {
-    const rows = toShiftCsvRows([shifts[1]!])
-    expect(rows).toEqual([expect.objectContaining({ start: '2027-03-02T10:00:00+01:00', timezone: 'Europe/Oslo', minutes_below: 40, light_state: 'Flagged: 40 min below civil light', people: 'Test Person' })])
+  it('exports the import\'s columns and time format, with people as e-mail addresses and state words', () => {
+    const rows = toShiftCsvRows([shifts[1]!], [{ id: 7, email: 'test.person@example.test' }])
+    expect(rows).toEqual([expect.objectContaining({
+      id: 2, site: 'Test Fjord Camp', title: 'A task', start: '2027-03-02 10:00', end: '2027-03-02 13:00', light: 'civil',
+      assignees: 'test.person@example.test', timezone: 'Europe/Oslo', minutes_below: 40,
+      light_state: 'Awaiting review: 40 min below civil light', review_state: 'Awaiting review', people: 'Test Person'
+    })])
+  })
+
+  // Europe/Oslo leaves summer time on 31 October 2027 at 03:00 CEST (last Sunday of October, EU rule):
+  // 02:30 happens twice, first at 00:30Z then at 01:30Z (tz database).
+  it('keeps the offset of a time the wall clock cannot name back (the second 02:30 of the autumn change)', () => {
+    expect(formatCsvTime('2027-10-31T02:30:00+02:00', 'Europe/Oslo')).toBe('2027-10-31 02:30')
+    expect(formatCsvTime('2027-10-31T02:30:00+01:00', 'Europe/Oslo')).toBe('2027-10-31T02:30:00+01:00')
   })
 })
 

@@ -5,7 +5,10 @@ import { eq, sql } from 'drizzle-orm'
 import { afterEach, beforeEach, describe, expect, it } from 'vitest'
 import { applyMigrations, openDatabase, type AppDatabase } from '../../server/utils/db'
 import { auditLog, people, shiftAssignees, shifts, sites } from '../../server/db/schema'
-import { buildShiftImportTemplate, importShiftsFromCsv, previewShiftImport } from '../../server/services/shift-import'
+import Papa from 'papaparse'
+import { buildShiftImportTemplate, importShiftsFromCsv, previewShiftImport, suggestSiteName } from '../../server/services/shift-import'
+import { findShiftsInRange } from '../../server/services/shifts'
+import { SHIFT_CSV_COLUMNS, toShiftCsvRows } from '../../shared/shift-table'
 import { MAX_IMPORT_ROWS } from '../../server/core/planning/csv'
 
 // Shift import against a fresh SQLite file with the migrations applied. Sites, people and shifts are
@@ -116,13 +119,59 @@ describe('a valid file', () => {
     expect(preview.rows[1]!.conflicts!.map(c => [c.kind, c.otherShiftId])).toEqual([['rest', stored.id], ['overlap', null]])
   })
 
-  it('offers a template that imports as it is against the demo names', () => {
+  it('offers a template with generic example rows, not any team\'s names', () => {
     const template = buildShiftImportTemplate(Date.UTC(2027, 0, 10))
     expect(template.split('\r\n')[0]).toBe(HEADER)
+    expect(template).not.toMatch(/gloamline\.test|Kvitfjell|Ravnvik/)
+    expect(template).toContain('2027-01-11 09:00')
     const preview = previewShiftImport(db, template)
     expect(preview.rows).toHaveLength(2)
-    // the demo people are not in this test database: only the assignees fail
-    expect(preview.rows.flatMap(r => r.errors).every(e => e.startsWith('assignees:'))).toBe(true)
+    // placeholders: only the site name and the addresses need replacing
+    expect(preview.rows.flatMap(r => r.errors).every(e => e.startsWith('assignees:') || e.startsWith('site:'))).toBe(true)
+  })
+})
+
+describe('the spreadsheet round trip', () => {
+  function exportWeek() {
+    const views = findShiftsInRange(db, { from: '2027-06-14', to: '2027-06-21' })
+    const rows = toShiftCsvRows(views, db.select({ id: people.id, email: people.email }).from(people).all())
+    // as the shift list's download writes it (composables/useCsvDownload.ts)
+    return Papa.unparse(rows, { columns: [...SHIFT_CSV_COLUMNS], newline: '\r\n', escapeFormulae: true })
+  }
+  const WEEK = csv(
+    'Ravnvik Pipeline Yard,Crossing inspection,2027-06-15 10:00,2027-06-15 13:00,daylight,kalle@import.gloamline.test,"-20 m rope, radio"',
+    'Kvitfjell Ice Camp,"Mast service, north side",2027-06-16 22:00,2027-06-17 02:00,any,liv@import.gloamline.test;kalle@import.gloamline.test,'
+  )
+
+  it('re-imports an exported week unchanged: every row names its shift and nothing is written', () => {
+    expect(importShiftsFromCsv(db, actorId, WEEK).created).toBe(2)
+    const before = db.select().from(shifts).all()
+    const file = exportWeek()
+    const preview = previewShiftImport(db, file)
+    expect(preview.valid, JSON.stringify(preview.rows)).toBe(true)
+    expect(preview.rows.map(r => [r.action, r.shiftId])).toEqual(before.map(b => ['unchanged', b.id]))
+    const result = importShiftsFromCsv(db, actorId, file)
+    expect(result).toMatchObject({ created: 0, updated: 0, unchanged: 2 })
+    expect(db.select().from(shifts).all()).toEqual(before)
+  })
+
+  it('changes the shift a row names when a cell was edited, and adds a row without an id', () => {
+    importShiftsFromCsv(db, actorId, WEEK)
+    const lines = exportWeek().split('\r\n')
+    lines[1] = lines[1]!.replace('Crossing inspection', 'Crossing inspection and log')
+    lines.push(',Ravnvik Pipeline Yard,Valve check,2027-06-18 10:00,2027-06-18 12:00,daylight,liv@import.gloamline.test,')
+    const preview = previewShiftImport(db, lines.join('\r\n'))
+    expect(preview.rows.map(r => r.action)).toEqual(['update', 'unchanged', 'create'])
+    const result = importShiftsFromCsv(db, actorId, lines.join('\r\n'))
+    expect(result).toMatchObject({ created: 1, updated: 1, unchanged: 1 })
+    expect(db.select().from(shifts).where(eq(shifts.id, preview.rows[0]!.shiftId!)).get()!.title).toBe('Crossing inspection and log')
+  })
+
+  it('asks "did you mean" for a near-miss site name', () => {
+    const preview = previewShiftImport(db, csv('Ravnvik Pipline Yard,Crossing inspection,2027-06-15 10:00,2027-06-15 13:00,daylight,,'))
+    expect(preview.rows[0]!.errors).toEqual(['site: no site named “Ravnvik Pipline Yard”; did you mean “Ravnvik Pipeline Yard”?'])
+    expect(suggestSiteName('Kvitfjel ice camp', ['Kvitfjell Ice Camp', 'Ravnvik Pipeline Yard'])).toBe('Kvitfjell Ice Camp')
+    expect(suggestSiteName('Somewhere else entirely', ['Kvitfjell Ice Camp', 'Ravnvik Pipeline Yard'])).toBeNull()
   })
 })
 
