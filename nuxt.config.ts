@@ -21,12 +21,10 @@ export default defineNuxtConfig({
     '@fontsource/work-sans/600.css',
     '~/assets/css/tailwind.css'
   ],
+  // Only what Nuxt modules read: nuxt-auth-utils takes the session settings (its password from
+  // NUXT_SESSION_PASSWORD at run time). The app's own settings are read from the environment at run
+  // time, once, by server/utils/config.ts.
   runtimeConfig: {
-    databasePath: process.env.DATABASE_PATH || '.data/gloamline.sqlite',
-    migrationsDir: process.env.MIGRATIONS_DIR || '',
-    smtpUrl: '',
-    forecastBaseUrl: '',
-    publicBaseUrl: '',
     session: { maxAge: 60 * 60 * 24 * 14 }
   },
   dir: { app: 'app' },

@@ -1,4 +1,6 @@
 // Applies the drizzle-kit migrations at start-up, in every environment, before any request.
+import { useAppConfig } from '../utils/config'
+
 export default defineNitroPlugin(() => {
   if (isDatabaseReadOnly()) {
     console.warn('[gloamline] database opened read-only (DATABASE_READ_ONLY=1): reads are served, every write answers 503')
@@ -6,5 +8,5 @@ export default defineNitroPlugin(() => {
   }
   const started = performance.now()
   applyMigrations(useDB())
-  console.info(`[gloamline] database ready (${process.env.DATABASE_PATH || '.data/gloamline.sqlite'}, migrations in ${Math.round(performance.now() - started)} ms)`)
+  console.info(`[gloamline] database ready (${useAppConfig().databasePath}, migrations in ${Math.round(performance.now() - started)} ms)`)
 })

@@ -3,13 +3,14 @@
 // once shortly after start (FORECAST_REFRESH_DELAY_MS, default 5 s) and then every N minutes; a failed
 // fetch is stored with its reason and the last good forecast stays.
 import { seedReady } from './1.seed'
+import { useAppConfig } from '../utils/config'
 
-const DEFAULT_START_DELAY_MS = 5_000
 const MIN_INTERVAL_MINUTES = 5
 
 export default defineNitroPlugin((nitroApp) => {
-  const minutes = Number(process.env.FORECAST_REFRESH_MINUTES)
-  if (!Number.isFinite(minutes) || minutes <= 0) return
+  const config = useAppConfig()
+  const minutes = config.forecastRefreshMinutes
+  if (minutes === null) return
   const settings = readForecastSettings()
   if (!settings.baseUrl) {
     console.warn('[gloamline] FORECAST_REFRESH_MINUTES is set but FORECAST_BASE_URL is not: no forecasts will be fetched')
@@ -34,8 +35,7 @@ export default defineNitroPlugin((nitroApp) => {
     }
   }
   const intervalMs = Math.max(minutes, MIN_INTERVAL_MINUTES) * 60_000
-  const delay = Number(process.env.FORECAST_REFRESH_DELAY_MS)
-  const first = setTimeout(refreshAll, Number.isFinite(delay) && delay >= 0 ? delay : DEFAULT_START_DELAY_MS)
+  const first = setTimeout(refreshAll, config.forecastRefreshDelayMs)
   const timer = setInterval(refreshAll, intervalMs)
   first.unref()
   timer.unref()

@@ -1,14 +1,15 @@
 import { seedReady } from './1.seed'
 import { closeMailTransports } from '../adapters/mail'
+import { useAppConfig } from '../utils/config'
 
 // Scheduled sending: once a minute, queue the reminders that are due (each site's reminderHour in its
 // own zone has come, for the next local day) and send whatever the outbox has due, including failed
 // sends whose back-off has passed. REMINDER_TIMER=off disables it (tests that do not test it);
 // REMINDER_TIMER_INTERVAL_MS shortens the minute for the tests that do.
 export default defineNitroPlugin((nitroApp) => {
-  if (process.env.REMINDER_TIMER === 'off') return
-  const configured = Number(process.env.REMINDER_TIMER_INTERVAL_MS)
-  const intervalMs = Number.isFinite(configured) && configured >= 100 ? configured : 60_000
+  const config = useAppConfig()
+  if (!config.reminderTimer) return
+  const intervalMs = config.reminderIntervalMs
   let running = false
 
   async function tick() {

@@ -1,10 +1,9 @@
-import { createError } from 'h3'
 import { and, asc, eq, gt, lt, type SQL } from 'drizzle-orm'
 import { z } from 'zod'
 import { people, unavailability } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
 import { recordAudit } from './audit'
-import { notFound } from '../utils/errors'
+import { fieldError, notFound } from '../utils/errors'
 import { InstantSchema, LocalDateSchema } from '../utils/validation'
 
 const DAY_MS = 86_400_000
@@ -46,10 +45,6 @@ export function readSpanBound(value: string, edge: 'start' | 'end'): number {
   if (!isWholeDay(value)) return Date.parse(value)
   const dayStart = Date.parse(`${value}T00:00:00Z`)
   return edge === 'end' ? dayStart + DAY_MS : dayStart
-}
-
-function fieldError(field: string, message: string) {
-  return createError({ statusCode: 400, statusMessage: 'Bad Request', message: `Invalid ${field}: ${message}`, data: { issues: [{ field, message }] } })
 }
 
 /** Blocked spans overlapping [from, to) (both optional), for one person or everyone, by start. */

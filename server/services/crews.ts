@@ -1,10 +1,9 @@
-import { createError } from 'h3'
 import { asc, eq, inArray } from 'drizzle-orm'
 import { z } from 'zod'
 import { crewMembers, crews, people } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
 import { recordAudit } from './audit'
-import { conflict, notFound } from '../utils/errors'
+import { conflict, fieldError, notFound } from '../utils/errors'
 
 export const CrewNameSchema = z.string({ error: 'expected a crew name' }).trim().min(1, 'required').max(80, 'at most 80 characters')
 const MemberIdsSchema = z.array(z.number().int().positive(), { error: 'expected a list of person ids' }).max(500)
@@ -40,10 +39,6 @@ export function requireCrewView(db: Reader, id: number): CrewView {
   const found = listCrews(db, [id])[0]
   if (!found) throw notFound('Crew')
   return found
-}
-
-function fieldError(field: string, message: string) {
-  return createError({ statusCode: 400, statusMessage: 'Bad Request', message: `Invalid ${field}: ${message}`, data: { issues: [{ field, message }] } })
 }
 
 // Crew names are unique regardless of case, so "Rime crew" and "rime crew" cannot both exist.

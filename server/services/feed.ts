@@ -18,6 +18,7 @@ import { people, settings, sites, type Person, type Site } from '../db/schema'
 import { addDays } from '../../shared/format'
 import { localDateOf } from '../core/time/zone-table'
 import type { AppDatabase } from '../utils/db'
+import { useAppConfig } from '../utils/config'
 import { describeCrewShift, loadPersonShifts } from './crew-day'
 import { computeLightDaysMs } from '../core/light/index'
 import { loadAssignees, loadLatestReviews } from './shifts'
@@ -177,7 +178,7 @@ export function buildPersonFeed(db: AppDatabase, person: Person, options: { nowM
 
 /** The server secret feed tokens are derived from: the session password (never stored in the database). */
 export function readFeedSecret(): string {
-  const secret = process.env.NUXT_SESSION_PASSWORD
+  const secret = useAppConfig().sessionPassword
   if (!secret || secret.length < 32) throw new Error('NUXT_SESSION_PASSWORD is not set: feed tokens cannot be derived')
   return secret
 }

@@ -2,9 +2,9 @@
 // people are added without a password (they are invited separately); someone already registered keeps
 // their name and role, and only joins the listed crews. Crews named in the file are created if missing.
 // Nothing is written unless every row is valid, and then everything in one transaction.
-import { createError } from 'h3'
 import { crewMembers, crews, people } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
+import { fieldError } from '../utils/errors'
 import { recordAudit } from './audit'
 import { readCsvTable, writeCsvText, type CsvRow } from '../core/planning/csv'
 import { EmailSchema, PersonNameSchema, RoleSchema } from '../utils/validation'
@@ -156,7 +156,7 @@ export function importPeopleFromCsv(db: AppDatabase, actorId: number, csv: strin
     if (!preview.valid) {
       const bad = preview.rows.filter(r => !r.ok).length
       const message = preview.errors[0] ?? `${bad} of ${preview.rows.length} rows have errors; nothing was imported`
-      throw createError({ statusCode: 400, statusMessage: 'Bad Request', message, data: { ...preview, issues: [{ field: 'csv', message }] } })
+      throw fieldError('csv', message, { data: { ...preview }, title: message })
     }
     const result = writePeopleRows(tx, preview.rows)
     recordAudit(tx, actorId, 'people.import', 'person', null, { ...result })

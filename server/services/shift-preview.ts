@@ -1,7 +1,7 @@
-import { createError } from 'h3'
 import { eq } from 'drizzle-orm'
 import { shifts } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
+import { fieldError } from '../utils/errors'
 import { checkShiftLight } from '../core/light/check'
 import { computeCandidateConflicts } from './conflict-context'
 import { requireAssignees, requireSiteForShift, resolveShiftTimes, type ShiftInput } from './shifts'
@@ -16,7 +16,7 @@ export function previewShiftCheck(db: AppDatabase, body: ShiftInput & { shiftId?
   const { startMs, endMs, notes } = resolveShiftTimes(body.start, body.end, site.timezone)
   const personIds = requireAssignees(db, body.assigneeIds)
   if (body.shiftId !== undefined && !db.select({ id: shifts.id }).from(shifts).where(eq(shifts.id, body.shiftId)).get()) {
-    throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: `Invalid shiftId: no shift with id ${body.shiftId}`, data: { issues: [{ field: 'shiftId', message: 'no such shift' }] } })
+    throw fieldError('shiftId', 'no such shift', { title: `Invalid shiftId: no shift with id ${body.shiftId}` })
   }
   const travelMinutes = body.travelMinutes ?? site.travelMinutes
   const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: body.light, travelMinutes })

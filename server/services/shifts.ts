@@ -1,8 +1,8 @@
-import { createError } from 'h3'
 import { and, desc, eq, gt, inArray, isNull, lt, type SQLWrapper } from 'drizzle-orm'
 import { z } from 'zod'
 import { LIGHT_REQUIREMENTS, people, reviews, shiftAssignees, shifts, sites, type Shift, type Site } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
+import { fieldError } from '../utils/errors'
 import { checkShiftLight, computeOutingWindow, MAX_TRAVEL_MINUTES } from '../core/light/check'
 import { InstantSchema, LocalDateSchema, singleLineText } from '../utils/validation'
 import { formatZonedIso, localMidnightMs, resolveLocalOrInstant } from '../core/time/zoned'
@@ -46,10 +46,6 @@ export const ShiftListQuerySchema = z.object({
 })
 
 export type { ShiftReply as ShiftView, ShiftReview as ShiftReviewSummary } from '../../shared/types/shift'
-
-function fieldError(field: string, message: string) {
-  return createError({ statusCode: 400, statusMessage: 'Bad Request', message: `Invalid ${field}: ${message}`, data: { issues: [{ field, message }] } })
-}
 
 /** Shapes a stored shift for the API, with its times in the site's zone. */
 export function toShiftView(row: Shift, site: Pick<Site, 'name' | 'timezone'>, assignees: { id: number, name: string }[], review: ShiftReviewSummary | null = null, conflicts: ShiftConflict[] = []): ShiftView {

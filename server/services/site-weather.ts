@@ -10,6 +10,7 @@ import { COLD_INPUT_LIMITS, COLD_UNITS, type ColdUnits } from '../../shared/cold
 import type { LightPeriodMs } from '../../shared/light'
 import { formatDay, formatLocalTime, formatUtcOffset } from '../../shared/format'
 import type { AppDatabase } from '../utils/db'
+import { useAppConfig, type AppConfig } from '../utils/config'
 import { recordAudit } from './audit'
 import { convertFahrenheitToCelsius, convertMphToKmh } from '../core/cold/index'
 import { fetchHourlyForecast, isForecastStale, summariseForecastForWindow, type ForecastHour } from '../adapters/forecast'
@@ -44,10 +45,9 @@ export interface ForecastRefreshOutcome {
   at: string
 }
 
-/** Where forecasts come from and how long a fetch may take, from the environment. */
-export function readForecastSettings(env: Record<string, string | undefined> = process.env) {
-  const timeout = Number(env.FORECAST_TIMEOUT_MS)
-  return { baseUrl: env.FORECAST_BASE_URL || '', timeoutMs: Number.isFinite(timeout) && timeout > 0 ? timeout : 5000 }
+/** Where forecasts come from and how long a fetch may take (FORECAST_BASE_URL, FORECAST_TIMEOUT_MS). */
+export function readForecastSettings(config: Pick<AppConfig, 'forecastBaseUrl' | 'forecastTimeoutMs'> = useAppConfig()) {
+  return { baseUrl: config.forecastBaseUrl, timeoutMs: config.forecastTimeoutMs }
 }
 
 /** Fetches a forecast for a site and stores it, or stores why it failed; the last good one is kept. */

@@ -1,12 +1,12 @@
 // POST /api/slots/search as a service: validates the request against the site, gathers the people,
 // their other shifts, blocked spans and the work rules from the database, and runs the pure slot
 // finder. Explicit imports (no auto-imports), so the benchmark can call it on a fresh database.
-import { createError } from 'h3'
 import { and, eq, inArray } from 'drizzle-orm'
 import { z } from 'zod'
 import { crewMembers, crews, LIGHT_REQUIREMENTS, people } from '../db/schema'
 import { SLOT_RANKS, type SlotSearchResult } from '../../shared/outlook'
 import type { AppDatabase } from '../utils/db'
+import { fieldError } from '../utils/errors'
 import type { ConflictContext } from '../core/planning/conflicts'
 import { loadConflictContext } from './conflict-context'
 import { computeLightDaysMs } from '../core/light/index'
@@ -57,10 +57,6 @@ export const SlotSearchBodySchema = z.object({
   }
 })
 export type SlotSearchBody = z.infer<typeof SlotSearchBodySchema>
-
-function fieldError(field: string, message: string) {
-  return createError({ statusCode: 400, statusMessage: 'Bad Request', message: `Invalid ${field}: ${message}`, data: { issues: [{ field, message }] } })
-}
 
 // The people a search is for: the listed ones, the crew's active members, or both (listed first).
 function gatherPeople(db: AppDatabase, body: SlotSearchBody): SlotPerson[] {

@@ -3,6 +3,20 @@ import type { ZodType } from 'zod'
 
 export interface FieldIssue { field: string, message: string }
 
+/**
+ * The one 400 for one bad field: `Invalid <field>: <message>`, with `issues: [{ field, message }]` in
+ * its data (beside any extra `data`, e.g. an import's row-by-row preview). `title` replaces the
+ * message line when it reads better on its own (an import's summary).
+ */
+export function fieldError(field: string, message: string, options: { data?: Record<string, unknown>, title?: string } = {}) {
+  return createError({
+    statusCode: 400,
+    statusMessage: 'Bad Request',
+    message: options.title ?? `Invalid ${field}: ${message}`,
+    data: { ...options.data, issues: [{ field, message }] }
+  })
+}
+
 /** Turns zod issues into a 400 whose message names the first offending field. */
 export function invalidInput(issues: FieldIssue[], where = 'input') {
   const first = issues[0]
@@ -26,7 +40,7 @@ export async function readBodyAs<T>(event: Parameters<typeof readBody>[0], schem
   try {
     body = await readBody(event)
   } catch {
-    throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'The request body is not valid JSON', data: { issues: [{ field: 'body', message: 'not valid JSON' }] } })
+    throw fieldError('body', 'not valid JSON', { title: 'The request body is not valid JSON' })
   }
   return parseInput(schema, body ?? {}, 'body')
 }

@@ -16,7 +16,7 @@ export default defineEventHandler(async (event) => {
   const before = findPersonPublic(id)
   if (!before) throw notFound('Person')
   if (id === actor.id && (changes.active === false || (changes.role && changes.role !== 'coordinator'))) {
-    throw createError({ statusCode: 400, message: 'Invalid role: you cannot demote or deactivate yourself', data: { issues: [{ field: changes.active === false ? 'active' : 'role', message: 'not on your own account' }] } })
+    throw fieldError(changes.active === false ? 'active' : 'role', 'not on your own account', { title: 'Invalid role: you cannot demote or deactivate yourself' })
   }
   useDB().transaction((tx) => {
     tx.update(people).set({ ...changes, updatedAt: nowDate() }).where(eq(people.id, id)).run()
