@@ -6,7 +6,8 @@ import { pathToFileURL } from 'node:url'
 const BENCHES: [file: string, exportName: string][] = [
   ['light.bench.ts', 'runLightBench'],
   ['planning.bench.ts', 'runPlanningBench'],
-  ['outlook.bench.ts', 'runOutlookBench']
+  ['outlook.bench.ts', 'runOutlookBench'],
+  ['rotations.bench.ts', 'runRotationsBench']
 ]
 
 for (const [file, name] of BENCHES) {

@@ -8,6 +8,10 @@ declare module '#auth-utils' {
   interface UserSession {
     loggedInAt: number
   }
+  // kept in the sealed cookie only, never sent to the page (nuxt-auth-utils strips `secure`)
+  interface SecureSessionData {
+    sid: string
+  }
 }
 
 export {}
