@@ -9,14 +9,17 @@ import type { AppDatabase } from '../utils/db'
 import { useAppConfig } from '../utils/config'
 import { sendMailMessage, type MailContent, type MailSender } from '../adapters/mail'
 import { nowDate, nowMs as clockNowMs } from '../core/time/clock'
+import { revealMailLink } from './mail-links'
 
 export const OUTBOX_RETRY_BASE_MS = 60_000
 export const OUTBOX_RETRY_MAX_MS = 60 * 60_000
 // after this many failed attempts the timer stops retrying; a coordinator can still retry by hand
 export const OUTBOX_MAX_ATTEMPTS = 12
-// a claimed message is not picked again for this long: longer than any SMTP timeout in mail.ts,
-// so a slow send is never sent twice; if the process dies mid-send, the message is retried after it
-const OUTBOX_LEASE_MS = 5 * 60_000
+// a claimed message is leased (messages.lease_until) for this long: longer than any SMTP timeout in
+// mail.ts, so a slow send is never sent twice. Every sender respects an unexpired lease, a forced one
+// ("send now", retry) too, in this process or another on the same database; if the holder dies
+// mid-send, the message is sent again once the lease has run out.
+export const OUTBOX_LEASE_MS = 5 * 60_000
 
 // ids being sent right now by this process (the lease covers other processes and crashes)
 const SENDING = new Set<number>()
@@ -69,20 +72,26 @@ export function hasOutboxMessage(db: Pick<AppDatabase, 'select'>, dedupeKey: str
   return Boolean(db.select({ id: messages.id }).from(messages).where(eq(messages.dedupeKey, dedupeKey)).get())
 }
 
-// Queued and never tried (or its lease ran out), or failed with a retry that is due.
-function dueCondition(nowMs: number) {
-  const now = new Date(nowMs)
-  return or(
-    and(eq(messages.status, 'queued'), or(isNull(messages.nextAttemptAt), lte(messages.nextAttemptAt, now))),
-    and(eq(messages.status, 'failed'), isNotNull(messages.nextAttemptAt), lte(messages.nextAttemptAt, now))
-  )
+// Nobody holds the message: never leased, or the lease has run out.
+function leaseFree(now: Date) {
+  return or(isNull(messages.leaseUntil), lte(messages.leaseUntil, now))
 }
 
-// Takes the message for this sender: the UPDATE moves its next attempt past the lease, so a second
-// sender's identical UPDATE matches nothing and only one of them sends.
+// Not held by a sender, and queued (never tried, or its back-off is over) or failed with a retry due.
+function dueCondition(nowMs: number) {
+  const now = new Date(nowMs)
+  return and(leaseFree(now), or(
+    and(eq(messages.status, 'queued'), or(isNull(messages.nextAttemptAt), lte(messages.nextAttemptAt, now))),
+    and(eq(messages.status, 'failed'), isNotNull(messages.nextAttemptAt), lte(messages.nextAttemptAt, now))
+  ))
+}
+
+// Takes the message for this sender: one UPDATE sets the lease only where nobody holds one, so of two
+// senders (two processes on one database included) only one matches and sends. `force` skips the
+// back-off, never a lease.
 function claimMessage(db: AppDatabase, id: number, nowMs: number, force: boolean): Message | undefined {
-  const due = force ? inArray(messages.status, ['queued', 'failed']) : dueCondition(nowMs)
-  return db.update(messages).set({ nextAttemptAt: new Date(nowMs + OUTBOX_LEASE_MS) })
+  const due = force ? and(inArray(messages.status, ['queued', 'failed']), leaseFree(new Date(nowMs))) : dueCondition(nowMs)
+  return db.update(messages).set({ leaseUntil: new Date(nowMs + OUTBOX_LEASE_MS) })
     .where(and(eq(messages.id, id), due)).returning().get()
 }
 
@@ -99,15 +108,16 @@ export async function deliverOutboxMessage(db: AppDatabase, id: number, options:
   const send = options.send ?? sendMailMessage
   SENDING.add(id)
   try {
-    await send({ to: row.toEmail, subject: row.subject, html: row.html, text: row.text })
-    db.update(messages).set({ status: 'sent', attempts: row.attempts + 1, sentAt: nowDate(), lastError: null, nextAttemptAt: null })
+    // a one-time link is stored sealed and put into the body only now (mail-links.ts)
+    await send({ to: row.toEmail, subject: row.subject, ...revealMailLink(row) })
+    db.update(messages).set({ status: 'sent', attempts: row.attempts + 1, sentAt: nowDate(), lastError: null, nextAttemptAt: null, leaseUntil: null })
       .where(eq(messages.id, id)).run()
     return { id, status: 'sent' }
   } catch (err) {
     const attempts = row.attempts + 1
     const error = describeSendError(err)
     const next = attempts >= OUTBOX_MAX_ATTEMPTS ? null : new Date(nowMs + computeRetryDelayMs(attempts))
-    db.update(messages).set({ status: 'failed', attempts, lastError: error, nextAttemptAt: next }).where(eq(messages.id, id)).run()
+    db.update(messages).set({ status: 'failed', attempts, lastError: error, nextAttemptAt: next, leaseUntil: null }).where(eq(messages.id, id)).run()
     return { id, status: 'failed', error }
   } finally {
     SENDING.delete(id)
@@ -179,5 +189,6 @@ export function findOutboxMessage(db: AppDatabase, id: number) {
   const row = db.select().from(messages).where(eq(messages.id, id)).get()
   if (!row) return undefined
   const person = row.personId ? db.select({ name: people.name }).from(people).where(eq(people.id, row.personId)).get() : undefined
-  return { ...toOutboxSummary(row), personName: person?.name ?? null }
+  const { sealedLink: _sealed, ...meta } = row.meta ?? {}
+  return { ...toOutboxSummary(row), meta: row.meta ? meta : null, personName: person?.name ?? null }
 }

@@ -3,6 +3,7 @@ import type { Browser } from 'playwright-core'
 import { startFakeForecastServer } from '../../scripts/fake-forecast.mjs'
 import { signedInClient, startAppServer, type AppServer } from '../support/app-server'
 import { keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
+import { runningClock, TEST_CLOCK } from '../support/clock'
 
 // The daily briefing with a stored forecast: the local fake forecast server (scripts/fake-forecast.mjs,
 // invented but deterministic figures) stands in for the forecast service, so no test reaches the network.
@@ -14,8 +15,10 @@ let browser: Browser
 let siteId: number
 
 beforeAll(async () => {
-  fake = await startFakeForecastServer({ port: 0 })
-  server = await startAppServer({ env: { FORECAST_BASE_URL: fake.url, FORECAST_TIMEOUT_MS: '2000' } })
+  // the forecast fake and the server share one test clock, so the forecast covers the briefing's day
+  const clockStart = TEST_CLOCK.weekdayMorning
+  fake = await startFakeForecastServer({ port: 0, now: runningClock(clockStart) })
+  server = await startAppServer({ clockStart, env: { FORECAST_BASE_URL: fake.url, FORECAST_TIMEOUT_MS: '2000' } })
   browser = await launchBrowser()
   const coordinator = await signedInClient(server, 'coordinator@gloamline.test')
   siteId = (await coordinator.get('/api/sites')).body.find((s: { name: string }) => s.name === 'Ravnvik Pipeline Yard').id

@@ -72,7 +72,7 @@ describe('reminders for a date, with a live SMTP sink', () => {
 
   beforeAll(async () => {
     sink = await startMailSink({ port: 0 })
-    server = await startAppServer({ clockStart: CLOCK_START, env: { SMTP_URL: sink.url, REMINDER_TIMER: 'off' } })
+    server = await startAppServer({ clockStart: CLOCK_START, env: { SMTP_URL: sink.url, REMINDER_TIMER: 'off', FIELD_ALERT_TIMER: 'off' } })
     sites = (await (await signedInClient(server, 'coordinator@gloamline.test')).get('/api/sites')).body
   })
   afterAll(async () => {
@@ -169,7 +169,7 @@ describe('an SMTP outage, then recovery', () => {
     const databasePath = join(dir, 'outage.sqlite')
     const port = await freePort()
     let sink: Sink | undefined
-    let server = await startAppServer({ clockStart: CLOCK_START, databasePath, env: { SMTP_URL: `smtp://127.0.0.1:${port}`, REMINDER_TIMER: 'off' } })
+    let server = await startAppServer({ clockStart: CLOCK_START, databasePath, env: { SMTP_URL: `smtp://127.0.0.1:${port}`, REMINDER_TIMER: 'off', FIELD_ALERT_TIMER: 'off' } })
     try {
       const expected = expectedReminders(databasePath, TOMORROW)
       let coordinator = await signedInClient(server, 'coordinator@gloamline.test')
@@ -186,7 +186,7 @@ describe('an SMTP outage, then recovery', () => {
       // restart on the same database, with the mail server now listening on that port
       await server.stop()
       sink = await startMailSink({ port }) as Sink
-      server = await startAppServer({ clockStart: CLOCK_START, databasePath, env: { SMTP_URL: sink.url, REMINDER_TIMER: 'off' } })
+      server = await startAppServer({ clockStart: CLOCK_START, databasePath, env: { SMTP_URL: sink.url, REMINDER_TIMER: 'off', FIELD_ALERT_TIMER: 'off' } })
       coordinator = await signedInClient(server, 'coordinator@gloamline.test')
       const retried = await coordinator.post('/api/outbox/retry', {})
       expect(retried.body).toEqual({ retried: expected.size, sent: expected.size, failed: 0 })
