@@ -4,8 +4,9 @@ import { crewMembers, crews, people } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
 import { recordAudit } from './audit'
 import { conflict, fieldError, notFound } from '../utils/errors'
+import { CONTROL_CHARACTERS_MESSAGE, hasControlCharacters } from '../utils/validation'
 
-export const CrewNameSchema = z.string({ error: 'expected a crew name' }).trim().min(1, 'required').max(80, 'at most 80 characters')
+export const CrewNameSchema = z.string({ error: 'expected a crew name' }).trim().min(1, 'required').max(80, 'at most 80 characters').refine(value => !hasControlCharacters(value), CONTROL_CHARACTERS_MESSAGE)
 const MemberIdsSchema = z.array(z.number().int().positive(), { error: 'expected a list of person ids' }).max(500)
 
 export const CrewBodySchema = z.object({ name: CrewNameSchema, memberIds: MemberIdsSchema.default([]) })

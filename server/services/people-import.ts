@@ -150,7 +150,7 @@ function writePeopleRows(tx: Tx, rows: PeopleImportRow[]) {
 }
 
 /** Imports every row of a people CSV in one transaction, or nothing when any row is bad. */
-export function importPeopleFromCsv(db: AppDatabase, actorId: number, csv: string) {
+export function importPeopleFromCsv(db: AppDatabase, actorId: number, csv: string, afterWrite?: (tx: Tx, createdIds: number[]) => number[]) {
   return db.transaction((tx) => {
     const preview = previewPeopleImport(tx, csv)
     if (!preview.valid) {
@@ -160,6 +160,8 @@ export function importPeopleFromCsv(db: AppDatabase, actorId: number, csv: strin
     }
     const result = writePeopleRows(tx, preview.rows)
     recordAudit(tx, actorId, 'people.import', 'person', null, { ...result })
-    return result
+    // e.g. the set-password invitations of the people just added, in the same transaction
+    const messageIds = afterWrite ? afterWrite(tx, result.ids) : []
+    return { ...result, messageIds }
   })
 }

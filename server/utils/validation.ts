@@ -31,5 +31,24 @@ export const LatitudeSchema = numberBetween(-90, 90)
 export const LongitudeSchema = numberBetween(-180, 180)
 
 export const EmailSchema = z.string().trim().toLowerCase().pipe(z.email('not an e-mail address').max(254))
-export const PersonNameSchema = z.string().trim().min(1, 'required').max(120)
+/**
+ * True when text holds a control character (C0, DEL, C1) or a Unicode line or paragraph separator.
+ * Names and titles are one line of plain text: a line break in one could forge lines wherever it is
+ * written out (a calendar feed, a mail header, a CSV export).
+ */
+export function hasControlCharacters(value: string): boolean {
+  for (const ch of value) {
+    const code = ch.codePointAt(0)!
+    if (code < 0x20 || (code >= 0x7f && code < 0xa0) || code === 0x2028 || code === 0x2029) return true
+  }
+  return false
+}
+export const CONTROL_CHARACTERS_MESSAGE = 'must be one line without control characters'
+
+/** A name or title: trimmed, 1 to `max` characters, one line, no control characters. */
+export function singleLineText(max: number) {
+  return z.string().trim().min(1, 'required').max(max, `at most ${max} characters`).refine(value => !hasControlCharacters(value), CONTROL_CHARACTERS_MESSAGE)
+}
+
+export const PersonNameSchema = singleLineText(120)
 export const RoleSchema = z.enum(['coordinator', 'safety', 'crew'], { error: 'must be coordinator, safety or crew' })

@@ -14,7 +14,7 @@ export default defineEventHandler(async (event) => {
   const body = await readBodyAs(event, BodySchema)
   const db = useDB()
   const baseUrl = resolvePublicBaseUrl(event)!
-  const { invitation, person, messageId } = createInvitation(db, actor, body, { baseUrl })
+  const { invitation, person, messageId } = createInvitation(db, actor, body, { baseUrl, secret: readSessionSecret() })
   const delivery = await deliverOutboxMessage(db, messageId)
   setResponseStatus(event, 201)
   return {

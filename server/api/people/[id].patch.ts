@@ -20,6 +20,8 @@ export default defineEventHandler(async (event) => {
   }
   useDB().transaction((tx) => {
     tx.update(people).set({ ...changes, updatedAt: nowDate() }).where(eq(people.id, id)).run()
+    // deactivation ends every session of that person at once (and they stay ended on reactivation)
+    if (changes.active === false) endPersonSessions(tx, id)
     recordAudit(tx, actor.id, 'person.update', 'person', id, { before, changes })
   })
   return findPersonPublic(id)

@@ -1,4 +1,4 @@
 export default defineEventHandler(async (event) => {
-  await requireRole(event)
-  return listPeople()
+  const viewer = await requireRole(event)
+  return listPeople(viewer)
 })
