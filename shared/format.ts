@@ -21,10 +21,45 @@ function toMs(value: string | number | Date): number {
   return typeof value === 'number' ? value : typeof value === 'string' ? Date.parse(value) : value.getTime()
 }
 
+function wallClockFromIntl(ms: number, timeZone: string): string {
+  const parts = Object.fromEntries(partsFormatter(timeZone).formatToParts(ms).map(p => [p.type, p.value]))
+  return `${parts.year}-${parts.month}-${parts.day}T${parts.hour}:${parts.minute}:${parts.second}`
+}
+
+// Intl costs microseconds a call, and a feed or a list formats thousands of instants. A zone's offset
+// is read once per UTC day: when it is the same at both ends of the day it holds all day (no zone
+// changes its offset twice within a day and back), and the wall clock is plain arithmetic; a day
+// with a change (NaN) asks Intl for every instant.
+const DAY_OFFSETS = new Map<string, number>()
+const OFFSET_DAY_MS = 86_400_000
+
+function offsetFromIntl(ms: number, timeZone: string): number {
+  return Date.parse(`${wallClockFromIntl(ms, timeZone)}Z`) - ms
+}
+
+function steadyDayOffset(ms: number, timeZone: string): number {
+  const day = Math.floor(ms / OFFSET_DAY_MS)
+  const key = `${timeZone}|${day}`
+  let offset = DAY_OFFSETS.get(key)
+  if (offset === undefined) {
+    const start = offsetFromIntl(day * OFFSET_DAY_MS, timeZone)
+    offset = start === offsetFromIntl((day + 1) * OFFSET_DAY_MS - 1000, timeZone) ? start : NaN
+    if (DAY_OFFSETS.size >= 20_000) DAY_OFFSETS.clear()
+    DAY_OFFSETS.set(key, offset)
+  }
+  return offset
+}
+
 /** The wall clock of an instant in a zone, as `YYYY-MM-DDTHH:mm:ss` without offset. */
 export function toWallClock(value: string | number | Date, timeZone: string): string {
-  const parts = Object.fromEntries(partsFormatter(timeZone).formatToParts(toMs(value)).map(p => [p.type, p.value]))
-  return `${parts.year}-${parts.month}-${parts.day}T${parts.hour}:${parts.minute}:${parts.second}`
+  const ms = Math.floor(toMs(value) / 1000) * 1000
+  const offset = Number.isFinite(ms) ? steadyDayOffset(ms, timeZone) : NaN
+  if (Number.isNaN(offset)) return wallClockFromIntl(ms, timeZone)
+  const wall = new Date(ms + offset)
+  const year = wall.getUTCFullYear()
+  // outside years 0–9999 the ISO form differs: leave those to Intl
+  if (year < 1000 || year > 9999) return wallClockFromIntl(ms, timeZone)
+  return wall.toISOString().slice(0, 19)
 }
 
 /**

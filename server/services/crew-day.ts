@@ -439,6 +439,8 @@ export interface CrewNextShift {
   siteId: number
   siteName: string
   zoneNote: string
+  /** The shift had started when the reply was made. */
+  underWay: boolean
   day: Omit<CrewDay, 'shifts'>
   shift: CrewShift
 }
@@ -451,7 +453,7 @@ function buildCrewNext(db: AppDatabase, person: Person, row: Shift | undefined, 
   const which = date === today ? 'today' as const : date === addDays(today, 1) ? 'tomorrow' as const : 'day' as const
   const view = buildCrewSiteView(db, { site, dates: [{ date, which }], person, shifts: [row], match: 'overlaps', nowMs })
   const { shifts: dayShifts, ...day } = view.days[0]!
-  return { siteId: site.id, siteName: site.name, zoneNote: view.zoneNote, day, shift: dayShifts[0]! }
+  return { siteId: site.id, siteName: site.name, zoneNote: view.zoneNote, underWay: row.startAt.getTime() <= nowMs, day, shift: dayShifts[0]! }
 }
 
 /** Today and tomorrow at each site where the person works in the next 7 days (or every site when none). */

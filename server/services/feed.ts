@@ -13,15 +13,17 @@
 // Explicit imports only, so unit tests can run it.
 import { createHash, createHmac, randomBytes } from 'node:crypto'
 import { eq } from 'drizzle-orm'
-import ical, { ICalEventStatus, ICalEventTransparency } from 'ical-generator'
-import { people, settings, sites, type Person, type Site } from '../db/schema'
+import { ICalEventStatus, ICalEventTransparency } from 'ical-generator'
+import { createICalCalendar, type ICalCalendar } from '../core/calendar/ical-writer'
+import { people, settings, sites, type Person, type Shift, type Site } from '../db/schema'
 import { addDays } from '../../shared/format'
+import { REVIEW_STATE_WORDS } from '../../shared/review'
 import { localDateOf } from '../core/time/zone-table'
 import type { AppDatabase } from '../utils/db'
 import { useAppConfig } from '../utils/config'
-import { describeCrewShift, loadPersonShifts } from './crew-day'
+import { describeCrewShift } from './crew-day'
 import { computeLightDaysMs } from '../core/light/index'
-import { loadAssignees, loadLatestReviews } from './shifts'
+import { createSiteBandCutter, loadFeedShifts } from './feed-rows'
 import { nowDate, nowMs as clockNowMs } from '../core/time/clock'
 
 const DAY_MS = 86_400_000
@@ -98,6 +100,7 @@ function describeFeedShift(shift: ReturnType<typeof describeCrewShift>, siteName
     `Minutes below its light need: ${shift.minutesBelow}`,
     `In the shift: ${shift.profileText}`,
     `Safety review: ${shift.reviewWords}`,
+    ...shift.reviewReasons.map(r => `Review reason: ${r}`),
     ...(shift.mitigations.length ? ['Measures set in the review:', ...shift.mitigations.map(m => `- ${m}`)] : []),
     ...(shift.reviewNote ? [`Review note: ${shift.reviewNote}`] : []),
     `With: ${shift.crewmates.length ? shift.crewmates.join(', ') : 'nobody else'}`,
@@ -110,15 +113,39 @@ function describeFeedShift(shift: ReturnType<typeof describeCrewShift>, siteName
 
 const NO_FORECAST = { state: 'none' as const, latest: null, lastAttempt: null }
 
-function addShiftEvents(db: AppDatabase, calendar: ReturnType<typeof ical>, person: Person, nowMs: number, siteById: Map<number, Site>, homeUrl: string | null) {
-  const rows = loadPersonShifts(db, person.id, nowMs - FEED_PAST_MS, nowMs + FEED_FUTURE_MS)
-  const assignees = loadAssignees(db, rows.map(r => r.id))
-  const reviews = loadLatestReviews(db, rows)
-  for (const row of rows) {
+/**
+ * The event status tells the truth about the review (DESIGN.md): TENTATIVE while a decision is awaited
+ * or the shift was sent back, CANCELLED when cancelled or rejected, CONFIRMED otherwise.
+ */
+export function feedStatusOf(row: Pick<Shift, 'reviewState' | 'cancelledAt'>): ICalEventStatus {
+  if (row.cancelledAt || row.reviewState === 'rejected') return ICalEventStatus.CANCELLED
+  if (row.reviewState === 'pending' || row.reviewState === 'changes-requested') return ICalEventStatus.TENTATIVE
+  return ICalEventStatus.CONFIRMED
+}
+
+// The state word in the event title, the same word as on every screen; nothing when no review is needed.
+function feedStateSuffix(row: Pick<Shift, 'reviewState' | 'cancelledAt'>): string {
+  if (row.cancelledAt) return ' · Cancelled'
+  return row.reviewState === 'not-needed' ? '' : ` · ${REVIEW_STATE_WORDS[row.reviewState]}`
+}
+
+// Work of one rendering slice before the feed lets other requests run (renderPersonFeed).
+const FEED_SLICE_MS = 40
+
+// Writes the shift events, yielding after each slice of about FEED_SLICE_MS of work. Cancelled shifts
+// stay in the feed as CANCELLED, so a calendar that already holds them drops them.
+function* addShiftEvents(db: AppDatabase, calendar: ICalCalendar, person: Person, nowMs: number, siteById: Map<number, Site>, homeUrl: string | null, live: Shift[]): Generator<void> {
+  // one statement for the shifts, their people and their latest decisions; one light trace per site
+  const feedRows = loadFeedShifts(db, person.id, nowMs - FEED_PAST_MS, nowMs + FEED_FUTURE_MS, { includeCancelled: true })
+  const light = createSiteBandCutter(siteById, feedRows)
+  let sliceStart = performance.now()
+  for (const { row, assignees, review } of feedRows) {
+    if (row.cancelledAt === null) live.push(row)
     const site = siteById.get(row.siteId)!
     const zone = person.displayZone === 'site' ? site.timezone : person.displayZone
+    const bands = light.cut(site.id, row.startAt.getTime(), row.endAt.getTime())
     // the feed is read long after it is fetched: no weather in it, only the light and the review
-    const shift = describeCrewShift({ row, site, zone, personId: person.id, assignees: assignees.get(row.id) ?? [], review: reviews.get(row.id) ?? null, forecast: NO_FORECAST, observations: [] })
+    const shift = describeCrewShift({ row, site, zone, personId: person.id, assignees, review, forecast: NO_FORECAST, observations: [], bands })
     calendar.createEvent({
       id: `shift-${row.id}@gloamline`,
       sequence: row.version,
@@ -127,17 +154,20 @@ function addShiftEvents(db: AppDatabase, calendar: ReturnType<typeof ical>, pers
       lastModified: row.updatedAt,
       start: row.startAt,
       end: row.endAt,
-      summary: `${row.title} · ${site.name} · ${shortLightState(shift)}`,
+      summary: `${row.title} · ${site.name} · ${shortLightState(shift)}${feedStateSuffix(row)}`,
       description: describeFeedShift(shift, site.name),
       location: { title: site.name, geo: { lat: site.latitude, lon: site.longitude } },
-      status: ICalEventStatus.CONFIRMED,
+      status: feedStatusOf(row),
       url: homeUrl
     })
+    if (performance.now() - sliceStart > FEED_SLICE_MS) {
+      yield
+      sliceStart = performance.now()
+    }
   }
-  return rows
 }
 
-function addSunEvents(calendar: ReturnType<typeof ical>, site: Site, nowMs: number) {
+function addSunEvents(calendar: ICalCalendar, site: Site, nowMs: number) {
   const from = localDateOf(nowMs, site.timezone)
   const days = computeLightDaysMs({ latitude: site.latitude, longitude: site.longitude, timezone: site.timezone, from, to: addDays(from, FEED_SUN_DAYS - 1) })
   const geo = { title: site.name, geo: { lat: site.latitude, lon: site.longitude } }
@@ -158,22 +188,52 @@ function addSunEvents(calendar: ReturnType<typeof ical>, site: Site, nowMs: numb
   }
 }
 
-/** The person's feed as iCalendar text: shifts in UTC, and sunrise/sunset for 14 days when they asked for it. */
-export function buildPersonFeed(db: AppDatabase, person: Person, options: { nowMs?: number, homeUrl?: string | null } = {}): string {
-  const nowMs = options.nowMs ?? clockNowMs()
-  const calendar = ical({
+/**
+ * Escapes TEXT for iCalendar (RFC 5545 3.3.11: backslash, semicolon, comma, line breaks) and drops
+ * other control characters. ical-generator escapes event fields itself but writes the calendar name
+ * (NAME, X-WR-CALNAME) as given, so a line break in a person's name could add lines to the feed.
+ */
+export function escapeICalText(value: string): string {
+  return value.replace(/[\\;,]/g, ch => `\\${ch}`).replace(/\r\n|\r|\n/g, '\\n').replace(/\p{Cc}/gu, '')
+}
+
+// The feed in slices: each `yield` is a point where other requests may run.
+function* writePersonFeed(db: AppDatabase, person: Person, nowMs: number, homeUrl: string | null, out: { text: string }): Generator<void> {
+  const calendar = createICalCalendar({
     name: `Gloamline shifts: ${person.name}`,
     prodId: { company: 'Gloamline', product: 'Shift feed', language: 'EN' },
-    ttl: 3600
+    ttl: 3600,
+    stampMs: nowMs
   })
   const siteById = new Map(db.select().from(sites).all().map(s => [s.id, s]))
-  const rows = addShiftEvents(db, calendar, person, nowMs, siteById, options.homeUrl ?? null)
+  const rows: Shift[] = []
+  yield* addShiftEvents(db, calendar, person, nowMs, siteById, homeUrl, rows)
   if (person.feedIncludeSun) {
     const horizon = nowMs + FEED_SUN_DAYS * DAY_MS
     const sunSites = [...new Set(rows.filter(r => r.endAt.getTime() > nowMs && r.startAt.getTime() < horizon).map(r => r.siteId))]
     for (const id of sunSites) addSunEvents(calendar, siteById.get(id)!, nowMs)
   }
-  return calendar.toString()
+  out.text = calendar.toString()
+}
+
+/** The person's feed as iCalendar text: shifts in UTC, and sunrise/sunset for 14 days when they asked for it. */
+export function buildPersonFeed(db: AppDatabase, person: Person, options: { nowMs?: number, homeUrl?: string | null } = {}): string {
+  const out = { text: '' }
+  for (const _ of writePersonFeed(db, person, options.nowMs ?? clockNowMs(), options.homeUrl ?? null, out)) { /* all at once */ }
+  return out.text
+}
+
+/**
+ * The same feed, rendered in slices of about 40 ms with other requests let in between (a feed of
+ * 10,000 shifts takes a second or more, which must not stall the server). The database is read in
+ * the first slice, so the feed is one consistent snapshot.
+ */
+export async function renderPersonFeed(db: AppDatabase, person: Person, options: { nowMs?: number, homeUrl?: string | null } = {}): Promise<string> {
+  const out = { text: '' }
+  for (const _ of writePersonFeed(db, person, options.nowMs ?? clockNowMs(), options.homeUrl ?? null, out)) {
+    await new Promise(resolve => setImmediate(resolve))
+  }
+  return out.text
 }
 
 /** The server secret feed tokens are derived from: the session password (never stored in the database). */

@@ -101,7 +101,8 @@ function matchesEtag(header: string | undefined, etag: string): boolean {
 export function sendCachedReply<T>(event: H3Event, reply: CachedReply<T>, cacheControl = 'private, no-cache'): T {
   const res = event.node.res
   res.setHeader('ETag', reply.etag)
-  res.setHeader('Cache-Control', cacheControl)
+  // a route or middleware that set its own (no-store on personal replies, say) keeps it
+  if (!res.hasHeader('Cache-Control')) res.setHeader('Cache-Control', cacheControl)
   res.setHeader('Vary', 'Accept-Encoding')
   if (matchesEtag(event.node.req.headers['if-none-match'], reply.etag)) {
     res.statusCode = 304

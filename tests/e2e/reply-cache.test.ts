@@ -97,7 +97,41 @@ describe('the week reply after a change', () => {
     expect(mine.status).toBe(200)
     const me = (await crew.get('/api/auth/me')).body.user.id
     const mineList = JSON.parse(mine.body.toString('utf8')) as { assigneeIds: number[] }[]
+    expect(mineList.length).toBeGreaterThan(0)
     expect(mineList.every(s => s.assigneeIds.includes(me))).toBe(true)
     expect(JSON.parse(all.body.toString('utf8')).length).toBeGreaterThanOrEqual(mineList.length)
+  })
+})
+
+describe('the calendar feed reply', () => {
+  it('has an ETag, answers 304 to it, compresses, and changes when the person\'s shifts do', async () => {
+    const { url } = (await crew.get('/api/me/feed')).body as { url: string }
+    const path = new URL(url).pathname
+    const first = await rawGet(path, {})
+    expect(first.status).toBe(200)
+    expect(first.headers['content-type']).toMatch(/^text\/calendar/)
+    expect(first.body.toString('utf8')).toMatch(/^BEGIN:VCALENDAR\r\n/)
+    expect(first.headers.etag).toMatch(/^W\/"/)
+    const again = await rawGet(path, { 'if-none-match': String(first.headers.etag) })
+    expect(again.status).toBe(304)
+    expect(again.body.length).toBe(0)
+    const gzip = await rawGet(path, { 'accept-encoding': 'gzip' })
+    expect(gzip.headers['content-encoding']).toBe('gzip')
+    expect(gunzipSync(gzip.body).equals(first.body)).toBe(true)
+    // a new shift for this person: the feed's text and ETag change at once
+    const me = (await crew.get('/api/auth/me')).body.user.id as number
+    const site = (await coordinator.get('/api/sites')).body[0] as { id: number }
+    const made = await coordinator.post('/api/shifts', { siteId: site.id, title: 'Feed cache check', light: 'any', assigneeIds: [me], overrideReason: 'cache test', start: '2026-12-10T10:00', end: '2026-12-10T12:00' })
+    expect(made.status, JSON.stringify(made.body)).toBe(201)
+    const after = await rawGet(path, { 'if-none-match': String(first.headers.etag) })
+    expect(after.status).toBe(200)
+    expect(after.headers.etag).not.toBe(first.headers.etag)
+    expect(after.body.toString('utf8')).toContain(`UID:shift-${made.body.id}@gloamline`)
+  })
+
+  it('an unknown token still gets the bare 404, with no ETag', async () => {
+    const reply = await rawGet(`/feed/${'B'.repeat(43)}.ics`, {})
+    expect(reply.status).toBe(404)
+    expect(reply.headers.etag).toBeUndefined()
   })
 })

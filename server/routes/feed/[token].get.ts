@@ -2,7 +2,7 @@
 // Any token that is malformed, unknown, regenerated away or belongs to an inactive person gets the
 // same bare plain-text 404 (not the usual JSON error, which would echo the URL), so the answer
 // reveals nothing about which tokens or people exist.
-export default defineEventHandler((event) => {
+export default defineEventHandler(async (event) => {
   const raw = getRouterParam(event, 'token') ?? ''
   const token = raw.endsWith('.ics') ? raw.slice(0, -4) : raw
   const db = useDB()
@@ -14,7 +14,7 @@ export default defineEventHandler((event) => {
     setResponseHeader(event, 'Content-Type', 'text/plain; charset=utf-8')
     return 'Not found'
   }
-  setResponseHeader(event, 'Content-Type', 'text/calendar; charset=utf-8')
   setResponseHeader(event, 'Content-Disposition', 'inline; filename="gloamline-shifts.ics"')
-  return buildPersonFeed(db, person, { homeUrl: resolvePublicBaseUrl(event) })
+  // cached per person and database version, with an ETag: an unchanged feed answers 304
+  return sendCachedReply(event, await loadPersonFeedReply(db, person, resolvePublicBaseUrl(event)))
 })
