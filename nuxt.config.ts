@@ -2,7 +2,7 @@ import { cp } from 'node:fs/promises'
 import { resolve } from 'node:path'
 
 export default defineNuxtConfig({
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint', '@vite-pwa/nuxt'],
   devtools: { enabled: false },
   app: {
     head: {
@@ -12,7 +12,11 @@ export default defineNuxtConfig({
         { name: 'viewport', content: 'width=device-width, initial-scale=1' },
         { name: 'description', content: 'Crew shifts at high-latitude sites, planned around the light.' }
       ],
-      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }]
+      link: [
+        { rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' },
+        { rel: 'manifest', href: '/manifest.webmanifest' },
+        { rel: 'apple-touch-icon', href: '/icon-192.png' }
+      ]
     }
   },
   css: [
@@ -75,5 +79,47 @@ export default defineNuxtConfig({
   telemetry: false,
   // @nuxt/eslint with its stylistic rules: single quotes, no semicolons, two-space indent, 1tbs
   eslint: { config: { stylistic: { quotes: 'single', semi: false, indent: 2, commaDangle: 'never', braceStyle: '1tbs' } } },
+  // Installable and usable with no connection (the crew's phone in a hut where the link is down).
+  // The service worker keeps the built app (scripts, styles, fonts, icons) and nothing else on its
+  // own: API replies always go to the network. A page is served from the cache only when the network
+  // fails, and only the crew home that the page itself stored for the signed-in crew member
+  // (composables/useOwnCopy.ts), which signing out deletes.
+  pwa: {
+    registerType: 'autoUpdate',
+    outDir: resolve(process.env.GLOAMLINE_OUTPUT_DIR || '.output', 'public'),
+    manifest: {
+      name: 'Gloamline',
+      short_name: 'Gloamline',
+      description: 'Crew shifts at high-latitude sites, planned around the light.',
+      lang: 'en',
+      start_url: '/',
+      scope: '/',
+      display: 'standalone',
+      theme_color: '#16213a',
+      background_color: '#0f1526',
+      icons: [
+        { src: '/icon-192.png', sizes: '192x192', type: 'image/png' },
+        { src: '/icon-512.png', sizes: '512x512', type: 'image/png' },
+        { src: '/icon-512.png', sizes: '512x512', type: 'image/png', purpose: 'maskable' }
+      ]
+    },
+    workbox: {
+      navigateFallback: null,
+      globPatterns: ['**/*.{js,css,woff2,png,svg}'],
+      cleanupOutdatedCaches: true,
+      runtimeCaching: [{
+        urlPattern: ({ request }) => request.mode === 'navigate',
+        handler: 'NetworkOnly',
+        options: {
+          plugins: [{
+            // no connection: the crew home the page stored for its own person, if there is one
+            handlerDidError: async () => (await caches.open('gloamline-own-pages')).match('/')
+          }]
+        }
+      }]
+    },
+    client: { installPrompt: false },
+    devOptions: { enabled: false }
+  },
   tailwindcss: { cssPath: '~/assets/css/tailwind.css', configPath: 'tailwind.config.ts' }
 })

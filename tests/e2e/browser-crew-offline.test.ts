@@ -8,7 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, BrowserContext, Page } from 'playwright-core'
 import { signedInClient, startAppServer, type AppServer } from '../support/app-server'
 import { TEST_CLOCK } from '../support/clock'
-import { keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
+import { ARTEFACTS_DIR, keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
 
 const PHONE = { width: 390, height: 844 }
 const CREW = 'crew@gloamline.test'
@@ -30,7 +30,7 @@ beforeAll(async () => {
   await page.getByTestId('crew-next').waitFor()
   // the service worker has installed (the app's files are cached) and the page has stored the home page
   await page.evaluate(() => navigator.serviceWorker.ready)
-  await expect.poll(() => page.evaluate(async () => Boolean(await (await caches.open('gloamline-own-pages')).match('/'))), { timeout: 15_000 }).toBe(true)
+  await page.waitForFunction(async () => Boolean(await (await caches.open('gloamline-own-pages')).match('/')), undefined, { timeout: 15_000, polling: 200 })
 }, 60_000)
 
 afterAll(async () => {
@@ -47,40 +47,49 @@ async function reopenOffline(): Promise<Page> {
   return reopened
 }
 
+// What the reopened offline page must show, against the reply the server gave while online.
+async function checkOfflineHome(offline: Page) {
+  await keepScreenshot(offline, 'crew-offline-phone-dark')
+  await offline.screenshot({ path: `${ARTEFACTS_DIR}/crew-offline-phone-dark-first-screen.png` })
+  const notice = (await offline.getByTestId('crew-offline').textContent())!.replace(/\s+/g, ' ')
+  expect(notice).toContain('No connection')
+  expect(notice).toMatch(/as of \w{3} \d{1,2} \w{3} \d{2}:\d{2} UTC/)
+
+  const next = offline.getByTestId('crew-next')
+  expect(await next.textContent()).toContain(expected.next.shift.title)
+  expect(await next.textContent()).toContain(expected.next.shift.timeText)
+  // the next shift is the first thing after the notice: its top is within the first screen
+  const box = await next.boundingBox()
+  expect(box!.y).toBeLessThan(PHONE.height / 2)
+
+  for (const site of expected.sites) {
+    const tomorrow = site.days.find((d: any) => d.which === 'tomorrow')
+    const panel = offline.getByTestId(`crew-site-${site.id}`).getByTestId('crew-day-tomorrow')
+    expect(await panel.locator('h3').textContent()).toContain(tomorrow.dateLabel)
+    expect(await panel.getByTestId('crew-moon').textContent()).toContain(tomorrow.moon.words)
+    expect(await panel.locator('[data-layer="moon"]').count()).toBe(tomorrow.moon.up.length)
+    const shown = await panel.locator('[data-testid^="crew-shift-"]').evaluateAll(els => els.map(e => e.getAttribute('data-testid')))
+    expect(shown).toEqual(tomorrow.shifts.map((s: any) => `crew-shift-${s.id}`))
+  }
+  // the moon's words follow the contract's form, e.g. "Moon up 14:10–02:30, 92 % lit"
+  expect(await offline.getByTestId('crew-moon').first().textContent()).toMatch(/Moon (up .+|below the horizon all day), \d{1,3} % lit/)
+  // cautions once for the screen, not inside each shift
+  expect(await offline.locator('[data-testid^="crew-shift-"] aside[role="note"]').count()).toBe(0)
+  // what needs the server says so
+  expect(await offline.getByRole('link', { name: /Reminders and calendar/ }).textContent()).toContain('Needs a connection')
+  expect(await offline.evaluate(() => document.documentElement.classList.contains('dark'))).toBe(true)
+}
+
 describe('the crew home with no connection', () => {
   it('reopens offline after one visit, leading with the next shift, tomorrow\'s light, the shifts and the moon', async () => {
     expect(expected.next).not.toBeNull()
     const offline = await reopenOffline()
-    const notice = (await offline.getByTestId('crew-offline').textContent())!.replace(/\s+/g, ' ')
-    expect(notice).toContain('No connection')
-    expect(notice).toMatch(/as of \w{3} \d{1,2} \w{3} \d{2}:\d{2} UTC/)
-
-    const next = offline.getByTestId('crew-next')
-    expect(await next.textContent()).toContain(expected.next.shift.title)
-    expect(await next.textContent()).toContain(expected.next.shift.timeText)
-    // the next shift is the first thing after the notice: its top is within the first screen
-    const box = await next.boundingBox()
-    expect(box!.y).toBeLessThan(PHONE.height / 2)
-
-    for (const site of expected.sites) {
-      const tomorrow = site.days.find((d: any) => d.which === 'tomorrow')
-      const panel = offline.getByTestId(`crew-site-${site.id}`).getByTestId('crew-day-tomorrow')
-      expect(await panel.locator('h3').textContent()).toContain(tomorrow.dateLabel)
-      expect(await panel.getByTestId('crew-moon').textContent()).toContain(tomorrow.moon.words)
-      expect(await panel.locator('[data-layer="moon"]').count()).toBe(tomorrow.moon.up.length)
-      const shown = await panel.locator('[data-testid^="crew-shift-"]').evaluateAll(els => els.map(e => e.getAttribute('data-testid')))
-      expect(shown).toEqual(tomorrow.shifts.map((s: any) => `crew-shift-${s.id}`))
+    try {
+      await checkOfflineHome(offline)
+    } finally {
+      await offline.close()
+      await context.setOffline(false)
     }
-    // the moon's words follow the contract's form, e.g. "Moon up 14:10–02:30, 92 % lit"
-    expect(await offline.getByTestId('crew-moon').first().textContent()).toMatch(/Moon (up .+|below the horizon all day), \d{1,3} % lit/)
-    // cautions once for the screen, not inside each shift
-    expect(await offline.locator('[data-testid^="crew-shift-"] aside[role="note"]').count()).toBe(0)
-    // what needs the server says so
-    expect(await offline.getByRole('link', { name: /Reminders and calendar/ }).textContent()).toContain('Needs a connection')
-    expect(await offline.evaluate(() => document.documentElement.classList.contains('dark'))).toBe(true)
-    await keepScreenshot(offline, 'crew-offline-phone-dark')
-    await offline.close()
-    await context.setOffline(false)
   }, 60_000)
 
   it('keeps only the signed-in person\'s own copy, and signing out deletes it and the stored page', async () => {
@@ -91,7 +100,7 @@ describe('the crew home with no connection', () => {
     await page.reload()
     await page.getByTestId('crew-next').waitFor()
     await page.getByRole('button', { name: /sign out/i }).click()
-    await page.waitForURL(url => url.pathname.startsWith('/login'))
+    await page.waitForURL(url => url.pathname.startsWith('/login'), { waitUntil: 'commit' })
     expect(await page.evaluate(() => Object.keys(localStorage).filter(k => k.startsWith('gloamline-own:')).length)).toBe(0)
     expect(await page.evaluate(() => caches.has('gloamline-own-pages'))).toBe(false)
   }, 60_000)
