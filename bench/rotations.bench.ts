@@ -9,7 +9,7 @@ import { applyMigrations, openDatabase, type AppDatabase } from '../server/utils
 import { people, shifts, sites } from '../server/db/schema'
 import { createRotation, RotationBodySchema } from '../server/services/rotations'
 import { createShift } from '../server/services/shift-writes'
-import { ShiftBodySchema } from '../server/services/shifts'
+import { ShiftBodySchema } from '../shared/schemas/shift'
 import { buildReviewQueue, ReviewQueueQuerySchema } from '../server/services/reviews'
 import { addDays } from '../shared/format'
 

@@ -177,14 +177,19 @@ export interface ReviewAssessmentInput {
   lightCheck: { flagged: boolean, minutesBelow: number, requirement: Shift['light'] }
   assigneeCount: number
   nowMs?: number
+  /** Read once by a caller assessing many shifts of one site (a rotation): rules, forecast, all readings. */
+  preloaded?: { rules: ReturnType<typeof loadWorkRules>, forecast: SiteForecastState, readings: ObservationRow[] }
 }
 
 /** Every review reason of a shift (light, cold, lone, long), from the work rules and the site's weather. */
 export function assessShiftReview(db: Pick<AppDatabase, 'select'>, input: ReviewAssessmentInput): ReviewReasonDetail[] {
-  const rules = loadWorkRules(db)
   const { fromMs, toMs } = input.window
-  const forecast = loadSiteForecast(db, input.site.id, input.nowMs ?? clockNowMs())
-  const readings = loadSiteObservations(db, input.site.id, fromMs - 3 * HOUR_MS, toMs)
+  const pre = input.preloaded
+  const rules = pre?.rules ?? loadWorkRules(db)
+  const forecast = pre?.forecast ?? loadSiteForecast(db, input.site.id, input.nowMs ?? clockNowMs())
+  const readings = pre
+    ? pre.readings.filter(r => Date.parse(r.at) >= fromMs - 3 * HOUR_MS && Date.parse(r.at) <= toMs)
+    : loadSiteObservations(db, input.site.id, fromMs - 3 * HOUR_MS, toMs)
   const bands = computeLightPeriodsInRange(input.site.latitude, input.site.longitude, fromMs, toMs)
   const weather = describeWindowWeather(forecast, readings, { startMs: fromMs, endMs: toMs, bands, timezone: input.site.timezone })
   const cold = weather.figures && weather.basis !== 'none' ? { ...weather.figures, basis: weather.basis } : null

@@ -17,7 +17,7 @@ export function describeRotation(row: Rotation, site: Pick<Site, 'name' | 'timez
 }
 
 // Days shaped in full (light strip, cold figures, cautions); the rest are listed by their stored figures.
-export const ROTATION_DETAIL_DAYS = 14
+export const ROTATION_DETAIL_DAYS = 7
 
 export interface RotationQueueDay {
   shiftId: number
@@ -26,6 +26,7 @@ export interface RotationQueueDay {
   end: string
   minutesBelow: number
   reviewState: Shift['reviewState']
+  reviewReasons: string[]
 }
 
 export interface RotationQueueGroup {
@@ -93,7 +94,8 @@ export function buildRotationQueueGroups(db: Pick<AppDatabase, 'select'>, groups
         start: formatZonedIso(r.startAt.getTime(), site.timezone),
         end: formatZonedIso(r.endAt.getTime(), site.timezone),
         minutesBelow: r.minutesBelow,
-        reviewState: r.reviewState
+        reviewState: r.reviewState,
+        reviewReasons: (r.reviewReasons ?? []).map(x => x.reason)
       }))
     })
   }

@@ -4,11 +4,11 @@
 import { and, asc, eq, gte, inArray, isNull } from 'drizzle-orm'
 import { z } from 'zod'
 import type { User } from '#auth-utils'
-import { LIGHT_REQUIREMENTS, rotations, shiftAssignees, shifts, sites, type Rotation, type Shift, type Site } from '../db/schema'
+import { rotations, shiftAssignees, shifts, sites, type Rotation, type Shift, type Site } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
-import { LocalDateSchema } from '../utils/validation'
+import { LightRequirementSchema, LocalDateSchema, TravelMinutesSchema } from '../utils/validation'
 import { notFound } from '../utils/errors'
-import { MAX_TRAVEL_MINUTES } from '../core/light/check'
+import { computeOutingWindow } from '../core/light/check'
 import { formatZonedIso, localMidnightMs } from '../core/time/zoned'
 import {
   expandRotation, findRotationIssues, planRotationShift, rankRotationDays, summariseRotation,
@@ -18,21 +18,25 @@ import { addConflictNeighbours, checkConflictsWith, loadConflictContext } from '
 import { computeStoredCheck, loadAssignees, loadLatestReviews, loadShiftRowConflicts, requireAssignees, requireSiteForShift, toShiftView } from './shifts'
 import { cancelShift, initialReviewState, updateShift } from './shift-writes'
 import { recordAudit } from './audit'
+import { loadWorkRules } from './work-rules'
+import { loadSiteForecast, loadSiteObservations } from './site-weather'
+import { nowMs as clockNowMs } from '../core/time/clock'
 import { announceShiftChange } from './shift-notices'
-import { recordReviewDecision, type ReviewInput } from './reviews'
+import { assessShiftReview, recordReviewDecision, type ReviewInput } from './reviews'
 import { describeRotation } from './rotation-queue'
 import type { ShiftConflict } from '../../shared/types/shift'
+import { describeReviewReason, type ReviewReasonDetail } from '../../shared/review'
 
+const HOUR_MS = 3_600_000
 const TimeOfDaySchema = z.string({ error: 'expected a time of day as HH:mm' })
   .regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'expected a time of day as HH:mm, 00:00 to 23:59')
 const AssigneeIdsSchema = z.array(z.number({ error: 'expected a person id' }).int().positive(), { error: 'expected a list of person ids' }).max(200)
-const TravelSchema = z.number({ error: 'expected minutes of travel each way' }).int('must be whole minutes').min(0, 'must be 0 or more').max(MAX_TRAVEL_MINUTES, `must be at most ${MAX_TRAVEL_MINUTES}`)
 
 /** POST /api/rotations (and its preview): the cycle, the task and the people. */
 export const RotationBodySchema = z.object({
   siteId: z.number({ error: 'expected a site id' }).int().positive(),
   title: z.string({ error: 'required' }).trim().min(1, 'required').max(200),
-  light: z.enum(LIGHT_REQUIREMENTS, { error: 'must be daylight, civil or any' }),
+  light: LightRequirementSchema,
   from: LocalDateSchema,
   to: LocalDateSchema,
   startTime: TimeOfDaySchema,
@@ -40,7 +44,7 @@ export const RotationBodySchema = z.object({
   onDays: z.number({ error: 'expected a number of working days' }).int('must be whole days').min(1, 'a cycle needs at least 1 working day').max(MAX_CYCLE_DAYS, `at most ${MAX_CYCLE_DAYS}`),
   offDays: z.number({ error: 'expected a number of days off' }).int('must be whole days').min(0, 'must be 0 or more').max(MAX_CYCLE_DAYS, `at most ${MAX_CYCLE_DAYS}`),
   assigneeIds: AssigneeIdsSchema.default([]),
-  travelMinutes: TravelSchema.optional()
+  travelMinutes: TravelMinutesSchema.optional()
 }).superRefine((body, ctx) => {
   for (const issue of findRotationIssues(body)) {
     if (issue.field === 'to') ctx.addIssue({ code: 'custom', path: ['to'], message: issue.message })
@@ -52,11 +56,11 @@ export type RotationInput = z.output<typeof RotationBodySchema>
 export const RotationPatchSchema = z.object({
   fromDate: LocalDateSchema,
   title: z.string().trim().min(1, 'required').max(200).optional(),
-  light: z.enum(LIGHT_REQUIREMENTS, { error: 'must be daylight, civil or any' }).optional(),
+  light: LightRequirementSchema.optional(),
   startTime: TimeOfDaySchema.optional(),
   endTime: TimeOfDaySchema.optional(),
   assigneeIds: AssigneeIdsSchema.optional(),
-  travelMinutes: TravelSchema.optional()
+  travelMinutes: TravelMinutesSchema.optional()
 })
 export type RotationPatch = z.output<typeof RotationPatchSchema>
 
@@ -76,6 +80,7 @@ interface CheckedPlan extends PlannedShift {
   minutesBelow: number
   flagged: boolean
   conflicts: ShiftConflict[]
+  reviewReasons: ReviewReasonDetail[]
 }
 
 function checkPlan(db: Pick<AppDatabase, 'select'>, site: Site, input: RotationInput, personIds: number[]): CheckedPlan[] {
@@ -85,11 +90,24 @@ function checkPlan(db: Pick<AppDatabase, 'select'>, site: Site, input: RotationI
     loadConflictContext(db, planned.map(p => ({ startMs: p.startMs, endMs: p.endMs, personIds }))),
     plannedNeighbours(planned, personIds, input.title, site.name)
   )
-  return planned.map(p => ({
-    ...p,
-    ...computeStoredCheck(site, p.startMs, p.endMs, input.light, travel),
-    conflicts: checkConflictsWith(loaded, { shiftId: -1 - p.index, startMs: p.startMs, endMs: p.endMs, personIds })
-  }))
+  // each shift is judged as the shift service judges a single one: light check, review reasons,
+  // conflicts; the rules, forecast and site readings are read once for all of them
+  const first = planned[0]?.startMs ?? 0
+  const last = planned.at(-1)?.endMs ?? 0
+  const travelMs = travel * 60_000
+  const preloaded = {
+    rules: loadWorkRules(db),
+    forecast: loadSiteForecast(db, site.id, clockNowMs()),
+    readings: loadSiteObservations(db, site.id, first - travelMs - 3 * HOUR_MS, last + travelMs)
+  }
+  return planned.map((p) => {
+    const check = computeStoredCheck(site, p.startMs, p.endMs, input.light, travel)
+    const reviewReasons = assessShiftReview(db, {
+      site, window: computeOutingWindow(p.startMs, p.endMs, travel), startMs: p.startMs, endMs: p.endMs,
+      lightCheck: { ...check, requirement: input.light }, assigneeCount: personIds.length, preloaded
+    })
+    return { ...p, ...check, reviewReasons, conflicts: checkConflictsWith(loaded, { shiftId: -1 - p.index, startMs: p.startMs, endMs: p.endMs, personIds }) }
+  })
 }
 
 /** What POST /api/rotations would make, without writing: every shift over the light, worst days first. */
@@ -103,6 +121,8 @@ export function previewRotation(db: AppDatabase, input: RotationInput) {
     end: formatZonedIso(c.endMs, site.timezone),
     minutesBelow: c.minutesBelow,
     flagged: c.flagged,
+    reviewReasons: c.reviewReasons.map(r => r.reason),
+    reviewReasonWords: c.reviewReasons.map(r => describeReviewReason(r, site.timezone)),
     conflicts: c.conflicts,
     timeNotes: c.timeNotes
   }))
@@ -110,7 +130,7 @@ export function previewRotation(db: AppDatabase, input: RotationInput) {
     timezone: site.timezone,
     siteName: site.name,
     shifts: shiftsOut,
-    summary: { ...summariseRotation(checked), conflicts: checked.filter(c => c.conflicts.length).length },
+    summary: { ...summariseRotation(checked), conflicts: checked.filter(c => c.conflicts.length).length, toReview: checked.filter(c => c.reviewReasons.length).length },
     worstDays: rankRotationDays(shiftsOut.map(s => ({ ...s, conflicts: s.conflicts.length }))).filter(d => d.minutesBelow > 0 || d.conflicts > 0).slice(0, 10)
   }
 }
@@ -129,7 +149,8 @@ export function createRotation(db: AppDatabase, actor: Pick<User, 'id'>, input: 
     const travel = input.travelMinutes ?? site.travelMinutes
     const rows = tx.insert(shifts).values(checked.map(c => ({
       siteId: site.id, title: input.title, startAt: new Date(c.startMs), endAt: new Date(c.endMs), light: input.light,
-      travelMinutes: travel, minutesBelow: c.minutesBelow, flagged: c.flagged, reviewState: initialReviewState(c.flagged),
+      travelMinutes: travel, minutesBelow: c.minutesBelow, flagged: c.flagged, reviewReasons: c.reviewReasons,
+      reviewState: initialReviewState(c.reviewReasons.length > 0),
       createdBy: actor.id, rotationId: rotation.id
     }))).returning({ id: shifts.id, reviewState: shifts.reviewState }).all()
     if (personIds.length) {
