@@ -123,6 +123,10 @@ export function findShiftFieldStatus(db: AppDatabase, actor: Actor, shiftId: num
   const latest = db.select({ id: fieldOutings.id }).from(fieldOutings).where(eq(fieldOutings.shiftId, shiftId)).orderBy(desc(fieldOutings.id)).get()
   const count = db.select({ id: shiftAssignees.personId }).from(shiftAssignees).where(eq(shiftAssignees.shiftId, shiftId)).all().length
   const settingsNow = loadFieldSettings(db)
+  const party = latest ? findFieldParty(db, latest.id, nowMs) ?? null : null
+  const travelMs = shift.travelMinutes * MINUTE_MS
+  // the crew's leave button shows from six hours before the planned departure until the planned return
+  const inWindow = nowMs >= shift.startAt.getTime() - travelMs - 6 * 3_600_000 && nowMs < shift.endAt.getTime() + travelMs
   return {
     shiftId,
     timezone: site.timezone,
@@ -132,7 +136,8 @@ export function findShiftFieldStatus(db: AppDatabase, actor: Actor, shiftId: num
     alone: count === 1,
     soloCheckInMinutes: settingsNow.soloCheckInMinutes,
     cancelled: shift.cancelledAt !== null,
-    party: latest ? findFieldParty(db, latest.id, nowMs) : null
+    canDepart: shift.cancelledAt === null && inWindow && (!party || party.state === 'back'),
+    party
   }
 }
 
@@ -276,4 +281,12 @@ export function queueFieldAlerts(db: AppDatabase, nowMs: number, baseUrl: string
     }
   }
   return created
+}
+
+/** The person's own parties out now (not back), with the lone-worker interval. */
+export function listOwnOpenOutings(db: Reader, personId: number, nowMs: number): { out: FieldParty[], soloCheckInMinutes: number } {
+  const fieldSettings = loadFieldSettings(db)
+  const mine = db.select({ shiftId: shiftAssignees.shiftId }).from(shiftAssignees).where(eq(shiftAssignees.personId, personId))
+  const rows = loadOutings(db, and(isNull(fieldOutings.returnedAt), inArray(fieldOutings.shiftId, mine)))
+  return { out: rows.map(row => toFieldParty(row, fieldSettings, nowMs)), soloCheckInMinutes: fieldSettings.soloCheckInMinutes }
 }
