@@ -7,7 +7,9 @@ import { eq } from 'drizzle-orm'
 import { auditLog, people, rotations, settings, shifts, sites } from '../../server/db/schema'
 import { createRotation, loadRotationReply, previewRotation, reviewRotation, RotationBodySchema, updateRotationFrom, cancelRotationFrom } from '../../server/services/rotations'
 import { buildReviewQueue, ReviewBodySchema, ReviewQueueQuerySchema } from '../../server/services/reviews'
-import { updateShift } from '../../server/services/shift-writes'
+import { createShift, updateShift } from '../../server/services/shift-writes'
+import { findShiftView } from '../../server/services/shifts'
+import { ShiftBodySchema } from '../../shared/schemas/shift'
 import { BANDS_MEETING_REQUIREMENT } from '../../shared/light'
 import { createTestDatabase, removeTestDatabases } from '../support/test-database'
 import { ReferenceTimeline, REFERENCE_THRESHOLDS, referenceAltitude, referenceMinutesOutside } from './reference/sun-reference'
@@ -171,6 +173,21 @@ describe('a rotation on a database', () => {
     expect(cancelled).toBe(final.shifts.filter(s => s.cancelled).length)
     expect(final.shifts.filter(s => s.cancelled).every(s => s.start.slice(0, 10) >= '2027-11-15')).toBe(true)
     expect(final.summary.shifts).toBe(final.shifts.length - cancelled)
+  })
+
+  it('gives each shift the same review reasons as the same shift made on its own (one person alone in polar night, lit work area)', () => {
+    const { db, site, coord, ana } = setup()
+    const id = createRotation(db, coord, body({ siteId: site.id, light: 'any', from: '2027-12-01', to: '2027-12-04', onDays: 1, offDays: 0, assigneeIds: [ana.id] }))
+    const rotationShifts = loadRotationReply(db, id).shifts
+    const single = createShift(db, coord, ShiftBodySchema.parse({ siteId: site.id, title: 'Alone', light: 'any', start: '2027-12-02T09:00', end: '2027-12-02T15:00', assigneeIds: [ana.id] }))
+    const alone = findShiftView(db, single.id)!
+    for (const s of rotationShifts) {
+      // DESIGN.md: lone = exactly one person and any minute with the sun below −6°; in December at 76°N every minute is
+      expect(s.reviewReasons).toEqual(alone.reviewReasons)
+      expect(s.reviewReasons).toContain('lone')
+      expect(s.reviewState).toBe('pending')
+      expect(s.lightCheck.flagged).toBe(false)
+    }
   })
 
   it('writes nothing when a person is unknown', () => {
