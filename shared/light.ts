@@ -54,6 +54,13 @@ export type DayStatus = typeof DAY_STATUSES[number]
 
 /** Longest range one light request may cover, in local days (DESIGN.md: at most 366). */
 export const MAX_LIGHT_RANGE_DAYS = 366
+/**
+ * The years the light engine answers for (its zone table and season search: 1901–2149, where the
+ * runtime's zone data is exact and every year has its solstices and equinoxes). Every date and
+ * instant the product takes in is held to this range (shared/schemas/calendar.ts).
+ */
+export const LIGHT_FIRST_YEAR = 1901
+export const LIGHT_LAST_YEAR = 2149
 
 /** Default N for "days with at least N hours of civil light" in the season summary. */
 export const DEFAULT_MIN_CIVIL_HOURS = 4

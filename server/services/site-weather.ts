@@ -17,6 +17,7 @@ import { fetchHourlyForecast, isForecastStale, summariseForecastForWindow, type 
 import { summariseColdForWindow, type WeatherSample, type WindowWeather } from '../core/review/queue'
 import { InstantSchema } from '../utils/validation'
 import { resolveLocalOrInstant } from '../core/time/zoned'
+import { realDateTime } from '../../shared/schemas/calendar'
 
 const HOUR_MS = 3_600_000
 const DAY_MS = 86_400_000
@@ -122,7 +123,7 @@ export function loadSiteObservations(db: Pick<AppDatabase, 'select'>, siteId: nu
 
 const ReadingTimeSchema = z.union([
   InstantSchema,
-  z.string().regex(/^\d{4}-\d{2}-\d{2}[T ]\d{2}:\d{2}(:\d{2})?$/)
+  realDateTime(z.string().regex(/^\d{4}-\d{2}-\d{2}[T ]\d{2}:\d{2}(:\d{2})?$/))
 ], { error: 'expected an ISO 8601 instant, or a local time YYYY-MM-DDTHH:mm in the site\'s zone' })
 
 const readingNumber = (field: string) => z.union([z.number(), z.string().trim().min(1, `${field} is required`)], { error: `${field} must be a number` })
@@ -259,4 +260,41 @@ export function parseObservationCsv(text: string, units: ColdUnits, timezone: st
     else issues.push({ field: `csv.row${rowNumber}.${checked.field}`, message: checked.message })
   })
   return { rows: issues.length ? [] : rows, issues }
+}
+
+// --- hourly weather with readings from the field ----------------------------------------------
+
+/** One hour of weather at a site, from the forecast or from a reading that is newer than it. */
+export interface SiteWeatherHour {
+  atMs: number
+  temperatureC: number | null
+  windKmh: number | null
+  visibilityM: number | null
+  source: 'forecast' | 'reading'
+}
+
+/**
+ * The site's hourly weather: the newest good forecast's hours, where a site reading entered after
+ * that forecast was fetched replaces the forecast for the hour it falls in (a measurement on site,
+ * or a forecast relayed from the field, is newer word than the forecast); readings in hours the
+ * forecast does not cover add those hours. Readings from two days back onwards are considered.
+ */
+export function loadSiteHourlyWeather(db: Pick<AppDatabase, 'select'>, siteId: number, nowMs: number): SiteWeatherHour[] {
+  const forecast = loadSiteForecast(db, siteId, nowMs).latest
+  const fetchedMs = forecast ? Date.parse(forecast.fetchedAt) : -Infinity
+  const hours = new Map<number, SiteWeatherHour>()
+  for (const h of forecast?.hours ?? []) {
+    const atMs = Date.parse(h.at)
+    hours.set(atMs, { atMs, temperatureC: h.temperatureC, windKmh: h.windKmh, visibilityM: (h as { visibilityM?: number | null }).visibilityM ?? null, source: 'forecast' })
+  }
+  const readings = db.select().from(observations)
+    .where(and(eq(observations.siteId, siteId), gte(observations.at, new Date(nowMs - 2 * DAY_MS))))
+    .orderBy(observations.createdAt, observations.id).all()
+  for (const r of readings) {
+    const hourMs = Math.floor(r.at.getTime() / HOUR_MS) * HOUR_MS
+    const existing = hours.get(hourMs)
+    if (existing?.source === 'forecast' && r.createdAt.getTime() <= fetchedMs) continue
+    hours.set(hourMs, { atMs: hourMs, temperatureC: r.temperatureC, windKmh: r.windKmh, visibilityM: r.visibilityM ?? null, source: 'reading' })
+  }
+  return [...hours.values()].sort((a, b) => a.atMs - b.atMs)
 }

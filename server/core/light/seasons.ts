@@ -7,7 +7,9 @@ import {
   type LightTransitions,
   type LocalDateSpan,
   type SeasonSummary,
-  type SunriseBearing
+  type SunriseBearing,
+  LIGHT_FIRST_YEAR,
+  LIGHT_LAST_YEAR
 } from '../../../shared/light'
 import { computeLightDaysMs } from './index'
 import { formatInstantInZone, shiftLocalDate } from '../time/zone-table'
@@ -42,7 +44,7 @@ export interface SeasonInstantsMs {
 }
 
 function validateYear(year: number) {
-  if (!Number.isInteger(year) || year < 1901 || year > 2149) throw new RangeError(`year must be a whole year from 1901 to 2149, got ${year}`)
+  if (!Number.isInteger(year) || year < LIGHT_FIRST_YEAR || year > LIGHT_LAST_YEAR) throw new RangeError(`year must be a whole year from ${LIGHT_FIRST_YEAR} to ${LIGHT_LAST_YEAR}, got ${year}`)
 }
 
 function validateMinCivilHours(hours: number | undefined): number {
