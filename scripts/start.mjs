@@ -82,7 +82,8 @@ async function main() {
     console.info(`[gloamline] forecasts come from the local fake at ${fake.url}`)
   }
 
-  const server = spawn(process.execPath, [serverEntry], { cwd: root, env, stdio: 'inherit' })
+  // one worker per core sharing the port (scripts/cluster.mjs; GLOAMLINE_WORKERS=1 for one process)
+  const server = spawn(process.execPath, [join(root, 'scripts', 'cluster.mjs')], { cwd: root, env, stdio: 'inherit' })
   console.info(`[gloamline] serving on http://localhost:${env.PORT} (demo sign-ins in README.md)`)
   server.on('error', err => fail(`the server process could not be started: ${describeStartError(err)}.`))
   server.on('exit', async (code, signal) => {

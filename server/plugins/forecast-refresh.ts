@@ -10,7 +10,8 @@ const MIN_INTERVAL_MINUTES = 5
 export default defineNitroPlugin((nitroApp) => {
   const config = useAppConfig()
   const minutes = config.forecastRefreshMinutes
-  if (minutes === null) return
+  // one worker of a cluster fetches: the others would store the same forecasts again
+  if (minutes === null || !config.timerWorker) return
   const settings = readForecastSettings()
   if (!settings.baseUrl) {
     console.warn('[gloamline] FORECAST_REFRESH_MINUTES is set but FORECAST_BASE_URL is not: no forecasts will be fetched')

@@ -8,7 +8,8 @@ import { useAppConfig } from '../utils/config'
 // REMINDER_TIMER_INTERVAL_MS shortens the minute for the tests that do.
 export default defineNitroPlugin((nitroApp) => {
   const config = useAppConfig()
-  if (!config.reminderTimer) return
+  // one worker of a cluster runs it (the outbox's keys and sending lease would make more safe, but idle)
+  if (!config.reminderTimer || !config.timerWorker) return
   const intervalMs = config.reminderIntervalMs
   let running = false
 

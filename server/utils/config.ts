@@ -22,6 +22,9 @@ function readEnv(env: Record<string, string | undefined>) {
     seedDemo: env.SEED_DEMO === '1',
     requestLog: env.REQUEST_LOG !== 'off',
     reminderTimer: env.REMINDER_TIMER !== 'off',
+    // in a cluster (scripts/cluster.mjs) worker 0 alone runs the reminder and forecast timers; a
+    // single process (GLOAMLINE_WORKER unset) runs them itself
+    timerWorker: !env.GLOAMLINE_WORKER || env.GLOAMLINE_WORKER === '0',
     reminderIntervalMs: Math.max(positiveNumber(env.REMINDER_TIMER_INTERVAL_MS) ?? 60_000, 100),
     // the field alert check runs at least once a minute (DESIGN.md); FIELD_ALERT_TIMER=off stops it
     fieldAlertTimer: env.FIELD_ALERT_TIMER !== 'off',

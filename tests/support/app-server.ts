@@ -55,6 +55,8 @@ export interface StartOptions {
   clockStart?: string
   /** A port to listen on (the restart tests reuse one); a free one otherwise. */
   port?: number
+  /** The script to run instead of the built server itself (scripts/cluster.mjs, which forks it). */
+  script?: string
 }
 
 /**
@@ -71,7 +73,7 @@ export async function startAppServer(options: StartOptions = {}): Promise<AppSer
   let log = ''
   const listeners = new Set<() => void>()
   const spawnedAt = performance.now()
-  const child = spawn(process.execPath, [join(OUTPUT_DIR, 'server/index.mjs')], {
+  const child = spawn(process.execPath, [options.script ?? join(OUTPUT_DIR, 'server/index.mjs')], {
     cwd: dataDir,
     env: {
       ...process.env,
