@@ -401,12 +401,16 @@ export function buildCrewSiteView(db: AppDatabase, input: SiteDaysInput): CrewSi
     const onDay = siteShifts.filter(s => input.match === 'starts'
       ? s.startAt.getTime() >= dayStart && s.startAt.getTime() < dayEnd
       : s.startAt.getTime() < dayEnd && s.endAt.getTime() > dayStart)
-    const dayWeather = describeWindowWeather(forecast, observations, { startMs: dayStart, endMs: dayEnd, bands: [], timezone: zone })
+    // A forecast starts at the hour it was fetched, not at midnight: for the day under way, read the
+    // hours still ahead (from the start of the current hour), which is what a person plans with.
+    const aheadMs = Math.max(dayStart, Math.floor(input.nowMs / 3_600_000) * 3_600_000)
+    const underWay = aheadMs > dayStart && aheadMs < dayEnd
+    const dayWeather = describeWindowWeather(forecast, observations, { startMs: underWay ? aheadMs : dayStart, endMs: dayEnd, bands: [], timezone: zone })
     return {
       ...light[i]!, which,
       shifts: onDay.map(row => describeCrewShift({ row, site, zone, personId: person.id, assignees: assignees.get(row.id) ?? [], review: reviews.get(row.id) ?? null, forecast, observations })),
       // with no forecast at all the site's forecast note says so once; no need to repeat it per day
-      weather: forecast.latest ? describeWeatherWords(dayWeather) : ''
+      weather: forecast.latest ? `${underWay ? `From ${formatLocalTime(aheadMs, zone)} to midnight: ` : ''}${describeWeatherWords(dayWeather)}` : ''
     }
   })
   return {
