@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest'
 import { Body, Equator, Horizon, Illumination, Observer } from 'astronomy-engine'
 import { MOON_HORIZON_DEG, attachMoonToDays, computeMoonDays, computeMoonDaysMs, summariseMoonDays, type MoonDayMs } from '../../server/core/light/moon'
 import { localMidnightMs } from '../../server/core/time/zoned'
+import { describeMoonDay } from '../../shared/moon'
 
 interface Site { name: string, latitude: number, longitude: number, timezone: string }
 
@@ -149,5 +150,18 @@ describe('moon words for the crew screens', () => {
     const set = hhmm(raw[i + 1]!.events[0]!.atMs, SVALBARD.timezone)
     expect(words[i]!.words).toBe(`Moon up ${rise}–${set}, ${Math.round(raw[i]!.illumination * 100)} % lit`)
     for (const w of words) expect(w.upMinutes).toBeLessThanOrEqual(25 * 60)
+  })
+})
+
+describe('the moon of a day in words from the API shape', () => {
+  it('writes each up span on the site\'s clock, 24:00 for a span cut at midnight, and the lit percentage', () => {
+    const days = computeMoonDays({ ...SVALBARD, from: '2026-12-01', to: '2026-12-31' })
+    const cut = days.find(d => d.up.length === 1 && d.up[0]!.start.slice(11, 16) !== '00:00' && d.up[0]!.end.slice(0, 10) > d.date)!
+    expect(cut).toBeDefined()
+    expect(describeMoonDay(cut, cut.date)).toBe(`Moon up ${cut.up[0]!.start.slice(11, 16)}–24:00, ${Math.round(cut.illumination * 100)} % lit`)
+    const down = days.find(d => d.up.length === 0)!
+    expect(describeMoonDay(down, down.date)).toMatch(/^Moon below the horizon all day, \d+ % lit$/)
+    const all = days.find(d => d.up.length === 1 && d.up[0]!.start.slice(11, 16) === '00:00' && d.up[0]!.end.slice(0, 10) > d.date)!
+    expect(describeMoonDay(all, all.date)).toMatch(/^Moon up all day, \d+ % lit$/)
   })
 })
