@@ -124,7 +124,7 @@ interface DraftLike {
   end: string
   light: LightRequirement
   assigneeIds: number[]
-  travelMinutes?: number
+  travelMinutes?: number | null
 }
 
 /** Whether a shift edit changes what a review decided on (time, site, light need, travel or people). */

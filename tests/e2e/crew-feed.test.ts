@@ -103,12 +103,14 @@ describe('the calendar feed', () => {
     expect(autumn.description).toContain('UTC+02:00 → UTC+01:00 (clocks change)')
   })
 
-  it('drops a cancelled shift', async () => {
+  // DESIGN.md: STATUS:CANCELLED for a cancelled shift (RFC 5545 3.8.1.11), so a calendar that holds it drops it
+  it('keeps a cancelled shift as CANCELLED, so calendars that hold it drop it', async () => {
     expect((await coordinator.delete(`/api/shifts/${created.spring}`)).status).toBe(200)
     const { url } = (await crew.get('/api/me/feed')).body
-    const uids = parseEvents((await fetchFeed(url)).text).map(e => e.event.uid)
-    expect(uids).not.toContain(`shift-${created.spring}@gloamline`)
-    expect(uids).toContain(`shift-${created.autumn}@gloamline`)
+    const events = parseEvents((await fetchFeed(url)).text)
+    const status = (id: number) => events.find(e => e.event.uid === `shift-${id}@gloamline`)?.component.getFirstPropertyValue('status')
+    expect(status(created.spring)).toBe('CANCELLED')
+    expect(status(created.autumn)).not.toBe('CANCELLED')
   })
 
   it('adds sunrise and sunset for the person\'s sites over 14 days when asked, matching astronomy-engine', async () => {

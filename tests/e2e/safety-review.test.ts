@@ -105,14 +105,14 @@ describe('recording a decision', () => {
     expect(rejected.items.map((i: { shift: { id: number } }) => i.shift.id)).toEqual([a.id])
   })
 
-  it('answers 409 for a shift that is not flagged, naming why', async () => {
+  it('answers 409 for a shift with no review reason, naming why', async () => {
     // the same site and hours, but a lit work area: nothing is below requirement (DESIGN.md, "any")
     const start = dateFromToday(6)
     const lit = (await world.coordinator.post('/api/shifts', { siteId, title: 'Lit yard work', start: `${start}T23:00:00Z`, end: `${start}T23:30:00Z`, light: 'any', assigneeIds: crewIds.slice(0, 2) })).body
     expect(lit.reviewState).toBe('not-needed')
     const reply = await world.safety.post(`/api/shifts/${lit.id}/review`, APPROVAL)
     expect(reply.status).toBe(409)
-    expect(reply.body.message).toContain('not flagged')
+    expect(reply.body.message).toContain('needs no review')
     expect(countRows(lit.id)).toEqual({ reviews: 0, audits: 0 })
   })
 

@@ -11,7 +11,7 @@ function shiftItem(id: number, over: Partial<ShiftItem> = {}): ShiftItem {
     id, siteId: 1, siteName: 'Test Fjord Camp', timezone: 'Europe/Oslo', title: `Task ${id}`,
     start: '2027-03-02T10:00:00+01:00', end: '2027-03-02T13:00:00+01:00', light: 'civil', notes: '',
     assigneeIds: [], assignees: [], lightCheck: { requirement: 'civil', minutesBelow: 0, flagged: false },
-    reviewState: 'not-needed', review: null, conflictOverride: null, conflicts: [], version: 1, cancelled: false, ...over
+    reviewState: 'not-needed', reviewReasons: [], reviewReasonDetails: [], review: null, conflictOverride: null, conflicts: [], version: 1, cancelled: false, rotationId: null, ...over
   }
 }
 

@@ -48,7 +48,7 @@ describe('the shift form', () => {
     reply = { ...reply, lightCheck: { requirement: 'civil', minutesBelow: 50, flagged: true }, bands: [{ kind: 'nautical', start: '2027-03-02T17:00:00+01:00', end: '2027-03-02T17:50:00+01:00' }] }
     const form = await mountForm({ start: '2027-03-02T17:00', end: '2027-03-02T17:50' })
     await vi.waitFor(() => expect(form.find('[data-testid="preview-verdict"]').exists()).toBe(true), { timeout: 5000 })
-    expect(form.find('[data-testid="preview-verdict"]').text()).toContain('Flagged: 50 min below civil light')
+    expect(form.find('[data-testid="preview-verdict"]').text()).toContain('Awaiting review: 50 min below civil light')
     expect(form.find('[data-testid="shift-check-preview"]').text()).toContain('17:00–17:50 Nautical twilight (50 min)')
     expect(checked.at(-1)).toMatchObject({ siteId: 1, start: '2027-03-02T17:00', end: '2027-03-02T17:50', light: 'civil', assigneeIds: [7] })
   })

@@ -20,19 +20,19 @@ describe('the light-state marker', () => {
 
   it('says how far below the requirement a flagged shift is, in hours and minutes', async () => {
     const el = await mountSuspended(ShiftLightMarker, { props: { shift: shift(45, 'daylight', 'pending') } })
-    expect(el.text()).toBe('Flagged: 45 min below daylight')
+    expect(el.text()).toBe('Awaiting review: 45 min below daylight')
     const long = await mountSuspended(ShiftLightMarker, { props: { shift: shift(205, 'civil', 'pending') } })
-    expect(long.text()).toBe('Flagged: 3 h 25 min below civil light')
+    expect(long.text()).toBe('Awaiting review: 3 h 25 min below civil light')
   })
 
-  it('gives the short form on calendar chips without dropping the minutes', async () => {
+  it('gives the short form on calendar chips, with the minutes in its title', async () => {
     const el = await mountSuspended(ShiftLightMarker, { props: { shift: shift(180, 'daylight', 'pending'), short: true } })
-    expect(el.text()).toBe('Flagged: 3 h below')
-    expect(el.attributes('title')).toContain('Flagged: 3 h below daylight')
+    expect(el.text()).toBe('Awaiting review: below its light')
+    expect(el.attributes('title')).toContain('Below its light: 3 h below daylight')
   })
 
   it('names the safety decision on a reviewed shift', async () => {
-    for (const [state, word] of [['approved', 'Approved'], ['rejected', 'Rejected'], ['changes-requested', 'Changes requested']] as const) {
+    for (const [state, word] of [['approved', 'Approved'], ['rejected', 'Rejected'], ['changes-requested', 'Sent back']] as const) {
       const el = await mountSuspended(ShiftLightMarker, { props: { shift: shift(30, 'civil', state), detail: true } })
       expect(el.text()).toContain(word)
       expect(el.text()).toContain('30 min below civil light')

@@ -53,7 +53,7 @@ function shift(overrides: Partial<ShiftView> = {}): ShiftView {
     travelMinutes: 0,
     lightCheck: { requirement: 'daylight', minutesBelow: 90, flagged: true, checkedFrom: '2026-12-14T09:00:00+01:00', checkedTo: '2026-12-14T13:00:00+01:00' }, reviewState: 'pending',
     reviewReasons: ['light'], reviewReasonDetails: [{ reason: 'light', minutesBelow: 90, requirement: 'daylight' }],
-    review: null, conflictOverride: null, conflicts: [], version: 1, cancelled: false, ...overrides
+    review: null, conflictOverride: null, conflicts: [], version: 1, cancelled: false, rotationId: null, ...overrides
   }
 }
 
