@@ -1,42 +1,19 @@
 import { and, desc, eq, gt, inArray, isNull, lt, type SQLWrapper } from 'drizzle-orm'
 import { z } from 'zod'
-import { LIGHT_REQUIREMENTS, people, reviews, shiftAssignees, shifts, sites, type Shift, type Site } from '../db/schema'
+import { people, reviews, shiftAssignees, shifts, sites, type Shift, type Site } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
 import { fieldError } from '../utils/errors'
-import { checkShiftLight, computeOutingWindow, MAX_TRAVEL_MINUTES } from '../core/light/check'
-import { InstantSchema, LocalDateSchema, singleLineText } from '../utils/validation'
+import { checkShiftLight, computeOutingWindow } from '../core/light/check'
+import { InstantSchema, LocalDateSchema } from '../utils/validation'
 import { formatZonedIso, localMidnightMs, resolveLocalOrInstant } from '../core/time/zoned'
 import type { ShiftConflict, ShiftReply as ShiftView, ShiftReview as ShiftReviewSummary } from '../../shared/types/shift'
 import { computeStoredShiftConflicts } from './conflict-context'
+import { attachWeatherHolds } from './holds'
+import { nowMs } from '../core/time/clock'
 
 export const MAX_SHIFT_MS = 7 * 24 * 3_600_000
 
-const ShiftTimeSchema = z.union([
-  InstantSchema,
-  z.string().regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2})?$/)
-], { error: 'expected an ISO 8601 instant, or a local time YYYY-MM-DDTHH:mm in the site\'s zone' })
-
-export const ShiftBodySchema = z.object({
-  siteId: z.number({ error: 'expected a site id' }).int().positive(),
-  title: singleLineText(200),
-  start: ShiftTimeSchema,
-  end: ShiftTimeSchema,
-  light: z.enum(LIGHT_REQUIREMENTS, { error: 'must be daylight, civil or any' }),
-  assigneeIds: z.array(z.number().int().positive(), { error: 'expected a list of person ids' }).max(200).default([]),
-  notes: z.string().max(4000).optional(),
-  // each way; absent: the site's travelMinutes
-  travelMinutes: z.number({ error: 'expected minutes of travel each way' }).int('must be whole minutes').min(0, 'must be 0 or more').max(MAX_TRAVEL_MINUTES, `must be at most ${MAX_TRAVEL_MINUTES}`).optional(),
-  overrideReason: z.string().trim().max(1000).optional()
-})
-export type ShiftInput = z.infer<typeof ShiftBodySchema>
-
-export const ShiftPatchSchema = ShiftBodySchema.partial().extend({
-  // no default here: zod 4 still applies the body's default([]) under partial(), and a patch that
-  // leaves the people out (a drag on the calendar) must keep them, not empty the shift
-  assigneeIds: z.array(z.number().int().positive(), { error: 'expected a list of person ids' }).max(200).optional(),
-  version: z.number({ error: 'expected the version you edited' }).int().positive().optional()
-})
-export type ShiftPatch = z.infer<typeof ShiftPatchSchema>
+export type { ShiftInput, ShiftPatch } from '../../shared/schemas/shift'
 
 export const ShiftListQuerySchema = z.object({
   siteId: z.coerce.number().int().positive().optional(),
@@ -78,7 +55,9 @@ export function toShiftView(row: Shift, site: Pick<Site, 'name' | 'timezone'>, a
     conflicts,
     version: row.version,
     cancelled: row.cancelledAt !== null,
-    rotationId: row.rotationId ?? null
+    rotationId: row.rotationId ?? null,
+    // set from the forecast hours of the outing by attachWeatherHolds (services/holds.ts)
+    weatherHold: null
   }
 }
 
@@ -190,7 +169,7 @@ export function findShiftsInRange(db: AppDatabase, query: z.infer<typeof ShiftLi
   const latest = loadLatestReviews(db, rows, scope)
   const siteById = new Map(siteRows.map(s => [s.id, s]))
   const conflicts = loadShiftRowConflicts(db, rows, assignees)
-  return rows.map(row => toShiftView(row, siteById.get(row.siteId)!, assignees.get(row.id) ?? [], latest.get(row.id) ?? null, conflicts.get(row.id) ?? []))
+  return attachWeatherHolds(db, rows.map(row => toShiftView(row, siteById.get(row.siteId)!, assignees.get(row.id) ?? [], latest.get(row.id) ?? null, conflicts.get(row.id) ?? [])), nowMs())
 }
 
 /** Work-rule warnings of stored shifts, in one pass for all of them; cancelled shifts have none. */
@@ -219,5 +198,5 @@ export function findShiftView(db: AppDatabase, id: number): ShiftView | undefine
   const site = db.select().from(sites).where(eq(sites.id, row.siteId)).get()!
   const assignees = loadAssignees(db, [id])
   const conflicts = loadShiftRowConflicts(db, [row], assignees).get(id) ?? []
-  return toShiftView(row, site, assignees.get(id) ?? [], loadLatestReviews(db, [row]).get(id) ?? null, conflicts)
+  return attachWeatherHolds(db, [toShiftView(row, site, assignees.get(id) ?? [], loadLatestReviews(db, [row]).get(id) ?? null, conflicts)], nowMs())[0]
 }

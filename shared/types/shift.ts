@@ -56,8 +56,21 @@ export interface ShiftReply {
   conflicts: ShiftConflict[]
   version: number
   cancelled: boolean
+  // the operator's most severe weather-hold level reached in the forecast hours of the outing
+  weatherHold?: ShiftWeatherHold | null
   // the rotation that made this shift, or null for a shift made on its own
   rotationId: number | null
   // set on create/patch replies when a wall-clock time fell in a clock-change gap or overlap
   timeNotes?: string[]
+}
+
+/** A weather hold on a shift (DESIGN.md: level, at, cause), with the level's advice and the figures. */
+export interface ShiftWeatherHold {
+  level: string
+  at: string
+  cause: 'windKmh' | 'windChillC' | 'visibilityM'
+  advice: string
+  /** The hour's figure that reached the level (km/h, °C or m) and the level's own figure. */
+  value: number
+  limit: number
 }
