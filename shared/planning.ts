@@ -2,11 +2,16 @@
 // light state. Pure: imports neither Vue nor Nitro.
 import type { BandKind, LightDay, LightRequirement } from './light'
 import { formatDuration } from './format'
+import { ShiftBodySchema } from './schemas/shift'
+import { hasControlCharacters } from './schemas/fields'
+import { MAX_TITLE_LENGTH } from './schemas/limits'
+import { collectFieldIssues } from './schemas/issues'
+import type { Role } from './roles'
 import { REVIEW_REASON_WORDS, REVIEW_STATE_WORDS, describeReviewReason, describeReviewReasonFigure } from './review'
 import type { ReviewState, ShiftConflict, ShiftConflictKind as ConflictKind, ShiftReply as ShiftItem } from './types/shift'
 
 export type { ReviewState, ShiftConflict, ShiftReply as ShiftItem } from './types/shift'
-export type Role = 'coordinator' | 'safety' | 'crew'
+export type { Role }
 export type { ShiftConflictKind as ConflictKind } from './types/shift'
 
 export interface SiteItem {
@@ -153,10 +158,14 @@ export const MAX_SHIFT_MINUTES = 7 * 24 * 60
  * where the server's own check decides.
  */
 export function validateShiftDraft(draft: ShiftDraft, conflicts: ShiftConflict[] = []): Record<string, string> {
-  const errors: Record<string, string> = {}
+  // the server's own schema first (shared/schemas/shift.ts), then the friendlier words below
+  const { siteId: _site, title: _title, start: _start, end: _end, ...errors } = collectFieldIssues(ShiftBodySchema, {
+    ...draft, siteId: draft.siteId ?? undefined, travelMinutes: draft.travelMinutes ?? undefined
+  })
   if (!draft.siteId) errors.siteId = 'Choose the site.'
   if (!draft.title.trim()) errors.title = 'Say what the task is.'
-  else if (draft.title.trim().length > 200) errors.title = 'Keep the task under 200 characters.'
+  else if (draft.title.trim().length > MAX_TITLE_LENGTH) errors.title = `Keep the task under ${MAX_TITLE_LENGTH} characters.`
+  else if (hasControlCharacters(draft.title)) errors.title = 'Keep the task on one line.'
   if (!WALL_RE.test(draft.start)) errors.start = 'Give a start date and a 24-hour time (HH:mm).'
   if (!WALL_RE.test(draft.end)) errors.end = 'Give an end date and a 24-hour time (HH:mm).'
   if (!errors.start && !errors.end) {

@@ -1,9 +1,12 @@
 import { sql } from 'drizzle-orm'
 import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core'
 import type { ReviewReasonDetail, ReviewShiftSnapshot } from '../../shared/review'
+import { ROLES } from '../../shared/roles'
+import { LIGHT_REQUIREMENT_KINDS } from '../../shared/light'
 
-export const ROLES = ['coordinator', 'safety', 'crew'] as const
-export const LIGHT_REQUIREMENTS = ['daylight', 'civil', 'any'] as const
+// The enums of roles and light requirements are the shared lists (shared/roles.ts, shared/light.ts).
+export { ROLES }
+export const LIGHT_REQUIREMENTS = LIGHT_REQUIREMENT_KINDS
 export const REVIEW_STATES = ['not-needed', 'pending', 'approved', 'rejected', 'changes-requested'] as const
 
 const createdAt = integer('created_at', { mode: 'timestamp_ms' }).notNull().default(sql`(unixepoch() * 1000)`)

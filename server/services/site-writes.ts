@@ -8,7 +8,7 @@ import { announceShiftChange } from './shift-notices'
 import { computeStoredCheck } from './shifts'
 import { initialReviewState } from './shift-writes'
 import { assessShiftReview } from './reviews'
-import { SiteBodySchema } from './sites'
+import { SiteBodySchema } from '../../shared/schemas/site'
 import { computeOutingWindow } from '../core/light/check'
 import { nowDate } from '../core/time/clock'
 

@@ -3,7 +3,7 @@
 // finder. Explicit imports (no auto-imports), so the benchmark can call it on a fresh database.
 import { and, eq, inArray } from 'drizzle-orm'
 import { z } from 'zod'
-import { crewMembers, crews, LIGHT_REQUIREMENTS, people } from '../db/schema'
+import { crewMembers, crews, people } from '../db/schema'
 import { SLOT_RANKS, type SlotSearchResult } from '../../shared/outlook'
 import type { AppDatabase } from '../utils/db'
 import { fieldError } from '../utils/errors'
@@ -13,7 +13,7 @@ import { computeLightDaysMs } from '../core/light/index'
 import { formatInstantInZone, shiftLocalDate } from '../core/time/zone-table'
 import { findSlots, MAX_SLOTS_PER_DAY, type SlotPerson } from '../core/planning/slot-finder'
 import { requireAssignees, requireSiteForShift } from './shifts'
-import { LocalDateSchema } from '../utils/validation'
+import { LightRequirementSchema, LocalDateSchema, TravelMinutesSchema } from '../utils/validation'
 import { loadWorkRules } from './work-rules'
 import { nowMs as clockNowMs } from '../core/time/clock'
 
@@ -34,7 +34,7 @@ export const SlotSearchBodySchema = z.object({
   siteId: z.number({ error: 'expected a site id' }).int().positive(),
   durationMinutes: z.number({ error: 'expected the task length in minutes' }).int('must be whole minutes')
     .min(15, 'must be at least 15 minutes').max(MAX_TASK_MINUTES, 'must be at most 7 days'),
-  light: z.enum(LIGHT_REQUIREMENTS, { error: 'must be daylight, civil or any' }),
+  light: LightRequirementSchema,
   // local dates in the site's zone; `to` is inclusive: from=2027-01-11, to=2027-01-17 searches seven days
   from: LocalDateSchema,
   to: LocalDateSchema,
@@ -44,7 +44,7 @@ export const SlotSearchBodySchema = z.object({
   rank: z.enum(SLOT_RANKS, { error: 'must be earliest or margin' }).default('earliest'),
   perDay: z.number({ error: 'expected a number of slots' }).int().min(1).max(MAX_SLOTS_PER_DAY, `must be at most ${MAX_SLOTS_PER_DAY}`).default(1),
   // each way; absent: the site's travelMinutes. Slots are time on site; the whole outing is in the light.
-  travelMinutes: z.number({ error: 'expected minutes of travel each way' }).int('must be whole minutes').min(0, 'must be 0 or more').max(720, 'must be at most 720').optional()
+  travelMinutes: TravelMinutesSchema.optional()
 }).superRefine((body, ctx) => {
   if (!body.assigneeIds?.length && body.crewId === undefined) {
     ctx.addIssue({ code: 'custom', path: ['assigneeIds'], message: 'give at least one person (assigneeIds) or a crew (crewId)' })

@@ -1,54 +1,22 @@
+// The request kit's validation pieces. Field schemas live in shared/schemas/fields.ts (the forms use
+// them too); this adds what only a handler reads (route params).
 import { z } from 'zod'
-import { isValidTimeZone } from '../../shared/time-zone'
+
+export {
+  CONTROL_CHARACTERS_MESSAGE,
+  EmailSchema,
+  InstantSchema,
+  LatitudeSchema,
+  LightRequirementSchema,
+  LocalDateSchema,
+  LongitudeSchema,
+  PersonNameSchema,
+  RoleSchema,
+  TimeZoneSchema,
+  TravelMinutesSchema,
+  hasControlCharacters,
+  numberBetween,
+  singleLineText
+} from '../../shared/schemas/fields'
 
 export const IdParamsSchema = z.object({ id: z.coerce.number().int().positive() })
-
-/** A calendar date YYYY-MM-DD that exists (2026-02-30 is refused). */
-export const LocalDateSchema = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'expected a date as YYYY-MM-DD').refine((value) => {
-  const [y, m, d] = value.split('-').map(Number) as [number, number, number]
-  const date = new Date(Date.UTC(y, m - 1, d))
-  return date.getUTCFullYear() === y && date.getUTCMonth() === m - 1 && date.getUTCDate() === d
-}, 'no such date')
-
-/** An IANA time zone name the runtime knows (the one test: shared/time-zone.ts). */
-export const TimeZoneSchema = z.string().min(1, 'required').max(64).refine(isValidTimeZone, 'not an IANA time zone name')
-
-/** An ISO 8601 instant with an offset or Z. */
-// a '+' offset sent unencoded in a query string arrives as a space: read it back as '+'
-export const InstantSchema = z.preprocess(
-  value => (typeof value === 'string' ? value.replace(/(T[\d:.]+) (\d{2}:?\d{2})$/, '$1+$2') : value),
-  z.string().regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d{1,3})?)?(Z|[+-]\d{2}:?\d{2})$/, 'expected an ISO 8601 instant with an offset')
-    .refine(value => !Number.isNaN(Date.parse(value)), 'not a valid instant'))
-
-/** A finite number in [min, max], given as a number or (from a query string) a non-empty numeric string. */
-export function numberBetween(min: number, max: number) {
-  return z.union([z.number(), z.string().trim().min(1, 'required')], { error: 'expected a number' })
-    .transform(value => Number(value))
-    .pipe(z.number({ error: 'expected a number' }).min(min, `must be between ${min} and ${max}`).max(max, `must be between ${min} and ${max}`))
-}
-
-export const LatitudeSchema = numberBetween(-90, 90)
-export const LongitudeSchema = numberBetween(-180, 180)
-
-export const EmailSchema = z.string().trim().toLowerCase().pipe(z.email('not an e-mail address').max(254))
-/**
- * True when text holds a control character (C0, DEL, C1) or a Unicode line or paragraph separator.
- * Names and titles are one line of plain text: a line break in one could forge lines wherever it is
- * written out (a calendar feed, a mail header, a CSV export).
- */
-export function hasControlCharacters(value: string): boolean {
-  for (const ch of value) {
-    const code = ch.codePointAt(0)!
-    if (code < 0x20 || (code >= 0x7f && code < 0xa0) || code === 0x2028 || code === 0x2029) return true
-  }
-  return false
-}
-export const CONTROL_CHARACTERS_MESSAGE = 'must be one line without control characters'
-
-/** A name or title: trimmed, 1 to `max` characters, one line, no control characters. */
-export function singleLineText(max: number) {
-  return z.string().trim().min(1, 'required').max(max, `at most ${max} characters`).refine(value => !hasControlCharacters(value), CONTROL_CHARACTERS_MESSAGE)
-}
-
-export const PersonNameSchema = singleLineText(120)
-export const RoleSchema = z.enum(['coordinator', 'safety', 'crew'], { error: 'must be coordinator, safety or crew' })

@@ -1,14 +1,21 @@
 // Dates and times the product takes in: real calendar dates, real 24-hour wall-clock times, and only
-// years the light engine answers for (LIGHT_FIRST_YEAR–LIGHT_LAST_YEAR, shared/light.ts). One range
-// for every schema, so no date outside it ever reaches the engine. Pure: zod only.
+// years inside the light engine's own range (LIGHT_FIRST_YEAR–LIGHT_LAST_YEAR, shared/light.ts). One
+// range for every schema, so no date outside it ever reaches the engine. Pure: zod only.
 import { z } from 'zod'
 import { LIGHT_FIRST_YEAR, LIGHT_LAST_YEAR } from '../light'
 
-export const YEAR_RANGE_MESSAGE = `must be in the years ${LIGHT_FIRST_YEAR} to ${LIGHT_LAST_YEAR}`
+/**
+ * The years the product takes in: the engine's range less one year at each end, so everything
+ * computed around an accepted date (the day before and after, the local day in any zone, a 90-day
+ * slot window, a 366-day light range) stays inside what the engine answers for.
+ */
+export const FIRST_YEAR = LIGHT_FIRST_YEAR + 1
+export const LAST_YEAR = LIGHT_LAST_YEAR - 1
+export const YEAR_RANGE_MESSAGE = `must be in the years ${FIRST_YEAR} to ${LAST_YEAR}`
 
-/** True for a whole year the light engine answers for. */
+/** True for a whole year the product takes in. */
 export function isSupportedYear(year: number): boolean {
-  return Number.isInteger(year) && year >= LIGHT_FIRST_YEAR && year <= LIGHT_LAST_YEAR
+  return Number.isInteger(year) && year >= FIRST_YEAR && year <= LAST_YEAR
 }
 
 /** True when year-month-day names a day on the (proleptic Gregorian) calendar: no 30 February, no month 13. */
@@ -56,6 +63,6 @@ export function realDateTime<T extends z.ZodType<string>>(schema: T) {
 /** A wall-clock time YYYY-MM-DDTHH:mm[:ss] (read in a site's zone) that exists and is in range. */
 export const WallClockTimeSchema = realDateTime(z.string().regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2})?$/, 'expected a local time YYYY-MM-DDTHH:mm'))
 
-/** A whole year the light engine answers for, from a number or a query string. */
+/** A whole year the product takes in, from a number or a query string. */
 export const SupportedYearSchema = z.coerce.number({ error: 'expected a year' }).int('expected a whole year')
-  .min(LIGHT_FIRST_YEAR, YEAR_RANGE_MESSAGE).max(LIGHT_LAST_YEAR, YEAR_RANGE_MESSAGE)
+  .min(FIRST_YEAR, YEAR_RANGE_MESSAGE).max(LAST_YEAR, YEAR_RANGE_MESSAGE)

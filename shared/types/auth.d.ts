@@ -3,7 +3,7 @@ declare module '#auth-utils' {
     id: number
     email: string
     name: string
-    role: 'coordinator' | 'safety' | 'crew'
+    role: import('../roles').Role
   }
   interface UserSession {
     loggedInAt: number

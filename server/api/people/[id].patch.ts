@@ -1,18 +1,12 @@
 import { eq } from 'drizzle-orm'
-import { z } from 'zod'
 import { people } from '../../db/schema'
-import { IdParamsSchema, PersonNameSchema, RoleSchema } from '../../utils/validation'
-
-const BodySchema = z.object({
-  name: PersonNameSchema.optional(),
-  role: RoleSchema.optional(),
-  active: z.boolean({ error: 'must be true or false' }).optional()
-}).strict()
+import { IdParamsSchema } from '../../utils/validation'
+import { PersonPatchSchema } from '../../../shared/schemas/person'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'coordinator')
   const { id } = readParamsAs(event, IdParamsSchema)
-  const changes = await readBodyAs(event, BodySchema)
+  const changes = await readBodyAs(event, PersonPatchSchema)
   const before = findPersonPublic(id)
   if (!before) throw notFound('Person')
   if (id === actor.id && (changes.active === false || (changes.role && changes.role !== 'coordinator'))) {

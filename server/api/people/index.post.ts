@@ -1,16 +1,9 @@
-import { z } from 'zod'
 import { people } from '../../db/schema'
-import { EmailSchema, PersonNameSchema, RoleSchema } from '../../utils/validation'
-
-const BodySchema = z.object({
-  name: PersonNameSchema,
-  email: EmailSchema,
-  role: RoleSchema
-})
+import { PersonBodySchema } from '../../../shared/schemas/person'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'coordinator')
-  const body = await readBodyAs(event, BodySchema)
+  const body = await readBodyAs(event, PersonBodySchema)
   if (findPersonByEmail(body.email)) {
     throw conflict('Someone with this e-mail already exists', { issues: [{ field: 'email', message: 'already in use' }] })
   }

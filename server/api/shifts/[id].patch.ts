@@ -1,4 +1,5 @@
 import { IdParamsSchema } from '../../utils/validation'
+import { ShiftPatchSchema } from '../../../shared/schemas/shift'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'coordinator')

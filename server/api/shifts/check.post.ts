@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { ShiftBodySchema } from '../../../shared/schemas/shift'
 
 const BodySchema = ShiftBodySchema.extend({
   // the stored shift being edited, so it is not its own neighbour in the conflict check

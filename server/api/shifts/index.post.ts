@@ -1,3 +1,5 @@
+import { ShiftBodySchema } from '../../../shared/schemas/shift'
+
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'coordinator')
   const body = await readBodyAs(event, ShiftBodySchema)

@@ -1,4 +1,5 @@
 import { sites } from '../../db/schema'
+import { SiteBodySchema } from '../../../shared/schemas/site'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'coordinator')

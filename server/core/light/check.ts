@@ -22,8 +22,8 @@ export interface ShiftLightInput {
   travelMinutes?: number
 }
 
-/** Longest travel each way a shift or site may carry (DESIGN.md: 0–720 minutes). */
-export const MAX_TRAVEL_MINUTES = 720
+/** Longest travel each way a shift or site may carry (0–720 minutes), defined with the request limits. */
+export { MAX_TRAVEL_MINUTES } from '../../../shared/schemas/limits'
 
 /** The outing of a shift: from leaving (start − travel) to being back (end + travel), in ms. */
 export function computeOutingWindow(startMs: number, endMs: number, travelMinutes = 0): { fromMs: number, toMs: number } {
