@@ -87,7 +87,7 @@ describe('the sign-in limiter', () => {
     for (let i = 0; i < 5; i++) expect((await guess(server, email, `again-${i}`)).status).toBe(401)
   })
 
-  it('fails closed when failures cannot be recorded (read-only database): 503, never an uncounted 401', async () => {
+  it('fails closed when failures cannot be recorded (read-only database): no guess is checked, not even a right one after 20 wrong', async () => {
     const folder = mkdtempSync(join(tmpdir(), 'gloamline-limits-'))
     folders.push(folder)
     const databasePath = join(folder, 'limits.sqlite')
@@ -97,5 +97,9 @@ describe('the sign-in limiter', () => {
     const readOnly = await start({ DATABASE_READ_ONLY: '1' }, databasePath)
     const replies = await Promise.all(Array.from({ length: 20 }, (_, i) => guess(readOnly, 'crew@gloamline.test', `wrong-${i}`)))
     expect(tally(replies.map(r => r.status))).toEqual({ 503: 20 })
+    // uncounted guesses would make the right password stand out from the wrong ones: it must not
+    const right = await guess(readOnly, 'crew@gloamline.test', DEMO_PASSWORD)
+    expect(right.status).toBe(503)
+    expect(right.body.message).toBeTruthy()
   })
 })
