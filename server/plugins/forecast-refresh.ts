@@ -27,6 +27,7 @@ export default defineNitroPlugin((nitroApp) => {
       const db = useDB()
       for (const site of listSites()) {
         const outcome = await refreshSiteForecast(db, site, { ...settings, actorId: null })
+        if (outcome.refreshed) reassessSiteReviewReasons(db, site.id)
         if (!outcome.refreshed) console.warn(`[gloamline] forecast for site ${site.id} not refreshed: ${outcome.status} (${outcome.message})`)
       }
     } catch (error) {

@@ -21,6 +21,8 @@ export default defineNitroPlugin((nitroApp) => {
       await seedReady.promise
       const db = useDB()
       queueDueReminders(db, nowMs(), resolvePublicBaseUrl())
+      // work waiting for review that no digest listed yet (imports, weather): one digest per officer per run
+      queueReviewDigests(db, { baseUrl: resolvePublicBaseUrl(), nowMs: nowMs() })
       await deliverDueOutboxMessages(db, nowMs())
     } catch (err) {
       console.error('[gloamline] reminder timer tick failed', err)

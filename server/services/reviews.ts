@@ -208,8 +208,9 @@ export function assessShiftReview(db: Pick<AppDatabase, 'select'>, input: Review
 
 /**
  * Re-reads the review reasons of a site's live, upcoming shifts after its weather changed (a new
- * forecast or readings): a shift that now meets the cold limit and needed no review goes to review.
- * A shift already waiting or decided keeps its state; its reasons are brought up to date.
+ * forecast or readings): a shift that now meets the cold limit and needed no review goes to review,
+ * and so does an approved one with a reason its approval did not cover. Otherwise the state stays;
+ * the reasons are brought up to date.
  */
 export function reassessSiteReviewReasons(db: AppDatabase, siteId: number, nowMs = clockNowMs()): number[] {
   const site = db.select().from(sites).where(eq(sites.id, siteId)).get()
@@ -229,8 +230,12 @@ export function reassessSiteReviewReasons(db: AppDatabase, siteId: number, nowMs
         lightCheck: { flagged: row.flagged, minutesBelow: row.minutesBelow, requirement: row.light }, assigneeCount: counts.get(row.id) ?? 0, nowMs
       })
       if (JSON.stringify(reasons) === JSON.stringify(row.reviewReasons)) continue
-      const reviewState = row.reviewState === 'not-needed' && reasons.length ? 'pending' : row.reviewState
+      // a reason the approval did not cover (the forecast turned cold) re-opens it; a drop changes nothing
+      const before = new Set((row.reviewReasons ?? []).map(r => r.reason))
+      const added = reasons.some(r => !before.has(r.reason))
+      const reviewState = (row.reviewState === 'not-needed' && reasons.length) || (row.reviewState === 'approved' && added) ? 'pending' : row.reviewState
       tx.update(shifts).set({ reviewReasons: reasons, reviewState }).where(eq(shifts.id, row.id)).run()
+      if (reviewState !== row.reviewState) recordAudit(tx, null, 'shift.review-reasons', 'shift', row.id, { before: row.reviewReasons, after: reasons, reopened: true })
       if (reviewState !== row.reviewState) reopened.push(row.id)
     }
     return reopened

@@ -9,6 +9,7 @@ export default defineEventHandler(async (event) => {
   const checked = convertObservationInput(body, site.timezone, nowMs())
   if (!checked.ok) throw invalidInput([{ field: checked.field, message: checked.message }])
   const [stored] = insertSiteObservations(useDB(), actor.id, site.id, [checked.row], 'manual')
+  reassessSiteReviewReasons(useDB(), site.id)
   setResponseStatus(event, 201)
   return stored
 })

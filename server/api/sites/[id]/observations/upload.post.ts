@@ -17,6 +17,7 @@ export default defineEventHandler(async (event) => {
   const parsed = parseObservationCsv(body.csv, body.units, site.timezone, nowMs())
   if (parsed.issues.length) throw invalidInput(parsed.issues)
   const stored = insertSiteObservations(useDB(), actor.id, site.id, parsed.rows, 'csv')
+  reassessSiteReviewReasons(useDB(), site.id)
   setResponseStatus(event, 201)
   return { siteId: site.id, stored: stored.length, observations: stored }
 })
