@@ -18,6 +18,7 @@ import {
 } from '../../../shared/light'
 import {
   SUNCALC_HORIZON_REFRACTION_DEG,
+  computeSuncalcRefractionDeg,
   convertApparentToGeometric,
   minimizeBrent,
   normalizeSunLatitude,
@@ -27,6 +28,7 @@ import {
   sampleSunPosition,
   solveRootNearGuess
 } from '../sun/position'
+import { DiurnalCourse, sampleSunNodes } from '../sun/diurnal'
 import {
   buildZoneTimeline,
   findZoneWallInstant,
@@ -248,11 +250,82 @@ function findCrossingsBetween(t0: number, a0: number, t1: number, a1: number, ou
   }
 }
 
+// Beyond this latitude the sun's altitude may not turn every day (within ~0.06° of a pole the
+// declination's own change outruns the daily wobble): the sampled search handles those sites.
+const COURSE_MAX_LATITUDE = 89.9
+const SIN_THRESHOLDS = THRESHOLDS.map(t => Math.sin(t * Math.PI / 180))
+
 /**
- * Samples and searches the sun over [fromMs, toMs]: every crossing and extremum inside it. The grid
- * runs two steps past each end so that an extremum near an end still shows among the samples.
+ * The sun over [fromMs, toMs] from its daily course (server/core/sun/diurnal.ts): every meridian
+ * passage from a day before to a day after, the highest or lowest point near each, and each threshold
+ * crossing on the monotone piece between two of them, seeded from the closed-form hour angle and
+ * refined by Newton steps on the analytic rate. Null when the course does not turn daily (near a pole).
+ */
+function traceSunCourse(latitude: number, longitude: number, fromMs: number, toMs: number): SunTrace | null {
+  if (Math.abs(latitude) > COURSE_MAX_LATITUDE) return null
+  const spanFrom = fromMs - DAY_MS
+  const spanTo = toMs + DAY_MS
+  const course = new DiurnalCourse(sampleSunNodes(spanFrom - DAY_MS, spanTo + DAY_MS), latitude, longitude)
+  course.at(spanFrom)
+  let m = Math.ceil(course.hourAngle / Math.PI)
+  let guess = spanFrom + (m * Math.PI - course.hourAngle) / (2 * Math.PI) * DAY_MS
+  const found: { ms: number, g: number, isMax: boolean }[] = []
+  for (;;) {
+    const passage = course.findHourAngle(guess, m * Math.PI)
+    if (passage > spanTo) break
+    const isMax = ((m % 2) + 2) % 2 === 0
+    const extremum = course.findExtremum(passage, isMax)
+    if (!extremum) return null
+    const last = found[found.length - 1]
+    // each extreme must follow the last and lie beyond it in altitude, or the course is not simple here
+    if (last && (extremum.ms <= last.ms || (isMax ? extremum.g <= last.g : extremum.g >= last.g))) return null
+    found.push({ ms: extremum.ms, g: extremum.g, isMax })
+    m++
+    guess = passage + DAY_MS / 2
+  }
+  if (found.length < 2) return null
+  const times = new Float64Array(found.length)
+  const alts = new Float64Array(found.length)
+  const extrema: TraceExtremum[] = []
+  found.forEach((x, k) => {
+    const altitude = Math.asin(Math.max(-1, Math.min(1, x.g))) * 180 / Math.PI
+    times[k] = x.ms
+    alts[k] = altitude + computeSuncalcRefractionDeg(altitude)
+    extrema.push({ ms: x.ms, altitude, isMax: x.isMax })
+  })
+  const crossings: TraceCrossing[] = []
+  for (let k = 1; k < found.length; k++) {
+    const a = found[k - 1]!
+    const b = found[k]!
+    const rising = b.isMax
+    const max = rising ? b : a
+    const mid = 0.5 * (a.g + b.g)
+    const half = 0.5 * Math.abs(b.g - a.g)
+    for (let n = 0; n < SIN_THRESHOLDS.length; n++) {
+      const level = rising ? n : SIN_THRESHOLDS.length - 1 - n
+      const target = SIN_THRESHOLDS[level]!
+      if (!(target > Math.min(a.g, b.g) && target < Math.max(a.g, b.g))) continue
+      // closed-form hour angle from the highest point (cos H0 = (sin h0 − sin φ sin δ) / (cos φ cos δ)),
+      // as a share of the half-day between the two extremes
+      const share = Math.acos(Math.max(-1, Math.min(1, (target - mid) / half))) / Math.PI
+      const seed = max.ms + (rising ? -1 : 1) * share * (b.ms - a.ms)
+      const root = course.findCrossing(a.ms, b.ms, a.g, b.g, target, seed)
+      course.at(root)
+      crossings.push({ ms: Math.round(root / 1000) * 1000, level, rising, azimuth: course.azimuthDeg() })
+    }
+  }
+  const startAltitude = course.altitudeDeg(fromMs)
+  return { startBand: bandIndexOfApparent(startAltitude + computeSuncalcRefractionDeg(startAltitude)), crossings, extrema, times, alts }
+}
+
+/**
+ * Samples and searches the sun over [fromMs, toMs]: every crossing and extremum inside it. From the
+ * daily course where it turns daily (nearly everywhere); else on a grid that runs two steps past each
+ * end so that an extremum near an end still shows among the samples.
  */
 function traceSun(latitude: number, longitude: number, fromMs: number, toMs: number): SunTrace {
+  const fast = traceSunCourse(latitude, longitude, fromMs, toMs)
+  if (fast) return fast
   SEARCH.latitude = latitude
   SEARCH.longitude = longitude
   CROSSING_HISTORY.fill(NaN)
