@@ -3,8 +3,8 @@
 // every site, with the light window there. Its outbox key is (kind, person, date, shift set): a run
 // that finds the key sends nothing new; a shift added to or taken from their day makes a new key and
 // an updated reminder. Explicit imports only, so unit tests can run it on a fresh database.
-import { and, eq, gte, inArray, isNull, like, lt, ne } from 'drizzle-orm'
-import { messages, people, shiftAssignees, shifts, sites, type Person, type Shift, type Site } from '../db/schema'
+import { and, eq, gt, gte, inArray, isNull, like, lt, ne } from 'drizzle-orm'
+import { messages, people, shiftAssignees, shifts, sites, unavailability, type Person, type Shift, type Site } from '../db/schema'
 import { addDays, formatDate } from '../../shared/format'
 import { renderReminderMail, type ReminderSiteProps } from '../../emails/reminder'
 import type { AppDatabase } from '../utils/db'
@@ -39,6 +39,18 @@ export function findShiftsStartingOn(db: AppDatabase, date: string, siteIds?: nu
   }).sort((a, b) => a.startAt.getTime() - b.startAt.getTime())
 }
 
+// The people's blocked spans (days away) overlapping the day's shifts: personId → spans.
+function loadAwaySpans(db: AppDatabase, personIds: number[], dayShifts: Shift[]) {
+  const map = new Map<number, { startMs: number, endMs: number }[]>()
+  if (!personIds.length || !dayShifts.length) return map
+  const from = new Date(Math.min(...dayShifts.map(s => s.startAt.getTime())))
+  const to = new Date(Math.max(...dayShifts.map(s => s.endAt.getTime())))
+  const rows = db.select().from(unavailability)
+    .where(and(inArray(unavailability.personId, personIds), lt(unavailability.startAt, to), gt(unavailability.endAt, from))).all()
+  for (const r of rows) map.set(r.personId, [...(map.get(r.personId) ?? []), { startMs: r.startAt.getTime(), endMs: r.endAt.getTime() }])
+  return map
+}
+
 /**
  * Who gets a reminder for a date, with which shifts. With siteIds, only people working at those
  * sites that day are planned, but each plan still holds all of their shifts that day.
@@ -52,9 +64,13 @@ export function planRemindersForDate(db: AppDatabase, date: string, siteIds?: nu
   const candidates = [...new Set(links.filter(l => wanted.has(shiftById.get(l.shiftId)!.siteId)).map(l => l.personId))]
   if (!candidates.length) return []
   const persons = db.select().from(people).where(and(inArray(people.id, candidates), eq(people.active, true), eq(people.remindersEnabled, true))).all()
-  return persons.map((person) => {
+  const away = loadAwaySpans(db, persons.map(p => p.id), dayShifts)
+  return persons.flatMap((person) => {
+    // no reminder for work on a day the person is away (leave, travel): the coordinator sees the
+    // conflict on the shift; the person is not told to turn up
     const own = links.filter(l => l.personId === person.id).map(l => shiftById.get(l.shiftId)!)
-    return { person, date, shifts: own, dedupeKey: composeReminderKey(person.id, date, own.map(s => s.id)) }
+      .filter(s => !(away.get(person.id) ?? []).some(b => b.startMs < s.endAt.getTime() && b.endMs > s.startAt.getTime()))
+    return own.length ? [{ person, date, shifts: own, dedupeKey: composeReminderKey(person.id, date, own.map(s => s.id)) }] : []
   }).sort((a, b) => a.person.id - b.person.id)
 }
 
