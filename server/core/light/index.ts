@@ -84,6 +84,8 @@ interface SunTrace {
   /** Grid samples and refined extrema in time order (apparent altitude): monotone between neighbours over [fromMs, toMs]. */
   times: Float64Array
   alts: Float64Array
+  /** The same samples' geometric altitudes, when the trace has them (saves inverting the refraction). */
+  geometric?: Float64Array
 }
 
 export interface LightDaysInput {
@@ -271,7 +273,8 @@ function traceSunCourse(latitude: number, longitude: number, fromMs: number, toM
   let guess = spanFrom + (m * Math.PI - course.hourAngle) / (2 * Math.PI) * DAY_MS
   const found: { ms: number, g: number, isMax: boolean }[] = []
   for (;;) {
-    const passage = course.findHourAngle(guess, m * Math.PI)
+    // the first passage is found on the hour angle; later ones start from the last extreme + half a day
+    const passage = found.length ? guess : course.findHourAngle(guess, m * Math.PI)
     if (passage > spanTo) break
     const isMax = ((m % 2) + 2) % 2 === 0
     const extremum = course.findExtremum(passage, isMax)
@@ -281,15 +284,17 @@ function traceSunCourse(latitude: number, longitude: number, fromMs: number, toM
     if (last && (extremum.ms <= last.ms || (isMax ? extremum.g <= last.g : extremum.g >= last.g))) return null
     found.push({ ms: extremum.ms, g: extremum.g, isMax })
     m++
-    guess = passage + DAY_MS / 2
+    guess = extremum.ms + DAY_MS / 2
   }
   if (found.length < 2) return null
   const times = new Float64Array(found.length)
   const alts = new Float64Array(found.length)
+  const geometric = new Float64Array(found.length)
   const extrema: TraceExtremum[] = []
   found.forEach((x, k) => {
     const altitude = Math.asin(Math.max(-1, Math.min(1, x.g))) * 180 / Math.PI
     times[k] = x.ms
+    geometric[k] = altitude
     alts[k] = altitude + computeSuncalcRefractionDeg(altitude)
     extrema.push({ ms: x.ms, altitude, isMax: x.isMax })
   })
@@ -309,13 +314,13 @@ function traceSunCourse(latitude: number, longitude: number, fromMs: number, toM
       // as a share of the half-day between the two extremes
       const share = Math.acos(Math.max(-1, Math.min(1, (target - mid) / half))) / Math.PI
       const seed = max.ms + (rising ? -1 : 1) * share * (b.ms - a.ms)
+      // the course's last evaluation is within 20 ms of the root: its azimuth is the crossing's (±0.0002°)
       const root = course.findCrossing(a.ms, b.ms, a.g, b.g, target, seed)
-      course.at(root)
       crossings.push({ ms: Math.round(root / 1000) * 1000, level, rising, azimuth: course.azimuthDeg() })
     }
   }
   const startAltitude = course.altitudeDeg(fromMs)
-  return { startBand: bandIndexOfApparent(startAltitude + computeSuncalcRefractionDeg(startAltitude)), crossings, extrema, times, alts }
+  return { startBand: bandIndexOfApparent(startAltitude + computeSuncalcRefractionDeg(startAltitude)), crossings, extrema, times, alts, geometric }
 }
 
 /**
@@ -410,13 +415,13 @@ interface DayBoundary {
 }
 
 function describeBoundaries(trace: SunTrace, bounds: Float64Array): DayBoundary[] {
-  const { times, alts } = trace
+  const { times, alts, geometric } = trace
   const out: DayBoundary[] = []
   let k = 1
   for (const ms of bounds) {
     while (k < times.length - 1 && times[k]! < ms) k++
-    const a = convertApparentToGeometric(alts[k - 1]!)
-    const b = convertApparentToGeometric(alts[k]!)
+    const a = geometric ? geometric[k - 1]! : convertApparentToGeometric(alts[k - 1]!)
+    const b = geometric ? geometric[k]! : convertApparentToGeometric(alts[k]!)
     out.push({ ms, low: Math.min(a, b), high: Math.max(a, b), exact: NaN })
   }
   return out

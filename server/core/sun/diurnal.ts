@@ -10,7 +10,7 @@
 // of the two extremes around it and refined with Newton steps on the same rate, safeguarded by the
 // bracket between the extremes (bisection when a step would leave it). Pure TypeScript.
 import { getPosition } from 'suncalc'
-import { convertApparentToGeometric } from './position'
+import { SUNCALC_HORIZON_REFRACTION_DEG } from './position'
 
 const RAD = Math.PI / 180
 const TWO_PI = 2 * Math.PI
@@ -50,7 +50,11 @@ export function sampleSunNodes(fromMs: number, toMs: number): SunNodes {
     // at φ = 90° suncalc's altitude asin(sin φ sin δ + cos φ cos δ cos H) is δ (cos 90° ≈ 6e-17) and its
     // azimuth atan2(sin H, cos H sin φ − tan δ cos φ) + 180° is H + 180°, with λ = 0: α = θ0 − H
     const pole = getPosition(POLE_DATE, 90, 0)
-    dec[i] = convertApparentToGeometric(pole.altitude) * RAD
+    // below the horizon suncalc's refraction is a constant; when the sun is up at the north pole it is
+    // down at the south pole (altitude −δ there), where subtracting that constant is exact again
+    dec[i] = (pole.altitude < SUNCALC_HORIZON_REFRACTION_DEG
+      ? pole.altitude - SUNCALC_HORIZON_REFRACTION_DEG
+      : SUNCALC_HORIZON_REFRACTION_DEG - getPosition(POLE_DATE, -90, 0).altitude) * RAD
     let alpha = siderealRad(ms) - (pole.azimuth - 180) * RAD
     if (i > 0) alpha -= TWO_PI * Math.round((alpha - ra[i - 1]! - TWO_PI / 365.25) / TWO_PI)
     ra[i] = alpha
@@ -163,10 +167,8 @@ export class DiurnalCourse {
       const step = this.rate / curvature
       t -= step
       if (Math.abs(t - passageMs) > 6 * 3_600_000) return null
-      if (Math.abs(step) < TIME_TOLERANCE_MS) {
-        this.at(t)
-        return { ms: t, g: this.g }
-      }
+      // within 20 ms of the turning point the altitude differs from the last one by under 1e-9°
+      if (Math.abs(step) < TIME_TOLERANCE_MS) return { ms: t, g: this.g }
     }
     return null
   }
