@@ -37,6 +37,8 @@ export interface BlockedSpanView {
   start: string
   end: string
   reason: string
+  /** The zone the person's whole days are read in. */
+  timezone: string
 }
 
 function isWholeDay(value: string) {
@@ -77,7 +79,7 @@ export function listBlockedSpans(db: Pick<AppDatabase, 'select'>, query: z.infer
     .from(unavailability).innerJoin(people, eq(people.id, unavailability.personId))
     .where(conditions.length ? and(...conditions) : undefined)
     .orderBy(asc(unavailability.startAt)).all()
-    .map(r => ({ id: r.id, personId: r.personId, personName: r.personName, start: r.startAt.toISOString(), end: r.endAt.toISOString(), reason: r.reason }))
+    .map(r => ({ id: r.id, personId: r.personId, personName: r.personName, start: r.startAt.toISOString(), end: r.endAt.toISOString(), reason: r.reason, timezone: zoneOfPersonId(db, r.personId) }))
 }
 
 /** Records a blocked span (leave, travel day) for a person, with an audit entry. */
@@ -103,7 +105,7 @@ export function createBlockedSpan(db: AppDatabase, actorId: number, input: z.inf
 export function findBlockedSpan(db: Pick<AppDatabase, 'select'>, id: number): BlockedSpanView | undefined {
   const row = db.select({ id: unavailability.id, personId: unavailability.personId, personName: people.name, startAt: unavailability.startAt, endAt: unavailability.endAt, reason: unavailability.reason })
     .from(unavailability).innerJoin(people, eq(people.id, unavailability.personId)).where(eq(unavailability.id, id)).get()
-  return row && { id: row.id, personId: row.personId, personName: row.personName, start: row.startAt.toISOString(), end: row.endAt.toISOString(), reason: row.reason }
+  return row && { id: row.id, personId: row.personId, personName: row.personName, start: row.startAt.toISOString(), end: row.endAt.toISOString(), reason: row.reason, timezone: zoneOfPersonId(db, row.personId) }
 }
 
 /** Deletes a blocked span, with an audit entry. */
