@@ -1,7 +1,6 @@
 import { z } from 'zod'
 import { LatitudeSchema, LocalDateSchema, LongitudeSchema, TimeZoneSchema, numberBetween } from './validation'
-import { LIGHT_FIRST_YEAR, LIGHT_LAST_YEAR } from '../../shared/light'
-import { YEAR_RANGE_MESSAGE } from '../../shared/schemas/calendar'
+import { FIRST_YEAR, LAST_YEAR, YEAR_RANGE_MESSAGE } from '../../shared/schemas/calendar'
 
 export const MAX_LIGHT_RANGE_DAYS = 366
 
@@ -20,7 +19,7 @@ export const LightQuerySchema = z.object({ lat: LatitudeSchema, lon: LongitudeSc
 export const SiteLightQuerySchema = z.object(RangeShape).superRefine(checkRange)
 
 const YearSchema = z.union([z.number(), z.string().trim().regex(/^-?\d+$/, 'expected a whole year')], { error: 'expected a year' })
-  .transform(Number).pipe(z.number().int().min(LIGHT_FIRST_YEAR, YEAR_RANGE_MESSAGE).max(LIGHT_LAST_YEAR, YEAR_RANGE_MESSAGE))
+  .transform(Number).pipe(z.number().int().min(FIRST_YEAR, YEAR_RANGE_MESSAGE).max(LAST_YEAR, YEAR_RANGE_MESSAGE))
 const MinCivilHoursSchema = numberBetween(0, 24).optional()
 
 export const SeasonsQuerySchema = z.object({ lat: LatitudeSchema, lon: LongitudeSchema, tz: TimeZoneSchema, year: YearSchema, minCivilHours: MinCivilHoursSchema })

@@ -6,7 +6,7 @@ import { isExists } from 'date-fns'
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
 import { LIGHT_FIRST_YEAR, LIGHT_LAST_YEAR } from '../../shared/light'
-import { describeDateTimeProblem, isCalendarDate, WallClockTimeSchema } from '../../shared/schemas/calendar'
+import { describeDateTimeProblem, FIRST_YEAR, isCalendarDate, LAST_YEAR, WallClockTimeSchema } from '../../shared/schemas/calendar'
 import { InstantSchema, LocalDateSchema } from '../../shared/schemas/fields'
 import { computeSeasons } from '../../server/core/light/seasons'
 
@@ -29,14 +29,14 @@ describe('wall-clock times and instants', () => {
   it.each([
     ['2026-02-30T10:00', 'no such date'], ['2026-13-01T10:00', 'no such date'], ['2026-00-10T10:00', 'no such date'],
     ['2026-03-01T10:60', 'minutes'], ['2026-03-01T99:99', 'hours'], ['2026-03-01T24:00', 'hours'], ['2026-03-01T10:00:60', 'seconds'],
-    ['0001-01-01T10:00', 'years'], ['1900-12-31T23:59', 'years'], ['2150-01-01T00:00', 'years'], ['9999-06-01T12:00', 'years']
+    ['0001-01-01T10:00', 'years'], ['1900-12-31T23:59', 'years'], ['1901-12-31T23:59', 'years'], ['2149-01-01T00:00', 'years'], ['2150-01-01T00:00', 'years'], ['9999-06-01T12:00', 'years']
   ])('refuses the local time %s (%s)', (text, why) => {
     const result = WallClockTimeSchema.safeParse(text)
     expect(result.success).toBe(false)
     expect(result.error!.issues[0]!.message).toContain(why)
   })
 
-  it.each(['2026-03-01T00:00', '2026-03-01T23:59', '2028-02-29T12:00:59', `${LIGHT_FIRST_YEAR}-01-01T00:00`, `${LIGHT_LAST_YEAR}-12-31T23:59`])('takes the local time %s', (text) => {
+  it.each(['2026-03-01T00:00', '2026-03-01T23:59', '2028-02-29T12:00:59', `${FIRST_YEAR}-01-01T00:00`, `${LAST_YEAR}-12-31T23:59`])('takes the local time %s', (text) => {
     expect(WallClockTimeSchema.safeParse(text).success).toBe(true)
   })
 
@@ -50,17 +50,19 @@ describe('wall-clock times and instants', () => {
   })
 
   it('holds local dates to the same range', () => {
-    expect(LocalDateSchema.safeParse(`${LIGHT_LAST_YEAR + 1}-01-01`).success).toBe(false)
-    expect(LocalDateSchema.safeParse(`${LIGHT_FIRST_YEAR - 1}-12-31`).success).toBe(false)
+    expect(LocalDateSchema.safeParse(`${LAST_YEAR + 1}-01-01`).success).toBe(false)
+    expect(LocalDateSchema.safeParse(`${FIRST_YEAR - 1}-12-31`).success).toBe(false)
+    expect(LocalDateSchema.safeParse(`${LAST_YEAR}-12-31`).success).toBe(true)
     expect(LocalDateSchema.safeParse('2027-02-29').success).toBe(false)
     expect(LocalDateSchema.safeParse('2028-02-29').success).toBe(true)
     expect(describeDateTimeProblem('2028-02-29')).toBeNull()
   })
 })
 
-describe('the year range is the light engine\'s own', () => {
-  it(`the engine answers for ${LIGHT_FIRST_YEAR} and ${LIGHT_LAST_YEAR} and refuses the years just outside`, () => {
+describe('the year range comes from the light engine\'s own', () => {
+  it(`the engine answers for ${LIGHT_FIRST_YEAR} and ${LIGHT_LAST_YEAR} and refuses the years just outside; the product keeps one year inside each end`, () => {
     for (const year of [LIGHT_FIRST_YEAR, LIGHT_LAST_YEAR]) expect(computeSeasons({ ...OSLO, year }).year).toBe(year)
     for (const year of [LIGHT_FIRST_YEAR - 1, LIGHT_LAST_YEAR + 1]) expect(() => computeSeasons({ ...OSLO, year })).toThrow(RangeError)
+    expect([FIRST_YEAR, LAST_YEAR]).toEqual([LIGHT_FIRST_YEAR + 1, LIGHT_LAST_YEAR - 1])
   })
 })

@@ -2,13 +2,12 @@ import { z } from 'zod'
 import { IdParamsSchema } from '../../../utils/validation'
 import { computeYearChart } from '../../../core/light/year-chart'
 import { localDateOf } from '../../../core/time/zoned'
-import { LIGHT_FIRST_YEAR, LIGHT_LAST_YEAR } from '../../../../shared/light'
-import { YEAR_RANGE_MESSAGE } from '../../../../shared/schemas/calendar'
+import { FIRST_YEAR, LAST_YEAR, YEAR_RANGE_MESSAGE } from '../../../../shared/schemas/calendar'
 
 const QuerySchema = z.object({
-  // the years the light engine answers for (shared/light.ts)
+  // the product's years, inside the light engine's (shared/schemas/calendar.ts)
   year: z.string().trim().regex(/^\d{4}$/, 'expected a year as four digits').transform(Number)
-    .pipe(z.number().int().min(LIGHT_FIRST_YEAR, YEAR_RANGE_MESSAGE).max(LIGHT_LAST_YEAR, YEAR_RANGE_MESSAGE)).optional()
+    .pipe(z.number().int().min(FIRST_YEAR, YEAR_RANGE_MESSAGE).max(LAST_YEAR, YEAR_RANGE_MESSAGE)).optional()
 })
 
 // The whole year's light at a site, day by day, for the year chart (the current local year by default).
