@@ -2,7 +2,7 @@ import { storeToRefs } from 'pinia'
 import type { Ref } from 'vue'
 import { addDays, fromWallClock, localDateIn } from '#shared/format'
 import { calendarRange, type SiteLight } from '#shared/calendar'
-import type { ShiftItem, SiteItem, SiteLightReply } from '#shared/planning'
+import type { ShiftReply, SiteItem, SiteLightReply } from '#shared/planning'
 
 /** The plan calendar's data: its zone and range, the shifts in it and each chosen site's light. */
 // Choose the sites before calling it: the fetch keys follow the range and zone, and a key that
@@ -30,7 +30,7 @@ export function usePlanData(sites: Ref<SiteItem[]>) {
     from: new Date(fromWallClock(`${range.value.from}T00:00`, zone.value)).toISOString(),
     to: new Date(fromWallClock(`${range.value.to}T00:00`, zone.value)).toISOString()
   }))
-  const shifts = useFetch<ShiftItem[]>('/api/shifts', { query: shiftQuery, server: false, default: () => [] })
+  const shifts = useFetch<ShiftReply[]>('/api/shifts', { query: shiftQuery, server: false, default: () => [] })
   const visibleShifts = computed(() => (shifts.data.value ?? []).filter(s => siteIds.value.includes(s.siteId) && !s.cancelled))
 
   // one day either side: a site's local days need not line up with the display zone's

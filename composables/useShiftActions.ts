@@ -1,7 +1,7 @@
-import { describeLightState, type ShiftCheckReply, type ShiftDraft, type ShiftItem } from '#shared/planning'
+import { describeLightState, type ShiftCheckReply, type ShiftDraft, type ShiftReply } from '#shared/planning'
 
 export type ShiftActionResult
-  = | { ok: true, shift: ShiftItem }
+  = | { ok: true, shift: ShiftReply }
     | { ok: false, status: number, message: string, fields: Record<string, string> }
 
 function failure(err: unknown): ShiftActionResult {
@@ -32,26 +32,26 @@ export function useShiftActions(refresh: () => unknown = () => undefined) {
   }
 
   async function createShift(draft: ShiftDraft) {
-    const result = await $fetch<ShiftItem>('/api/shifts', { method: 'POST', body: toBody(draft) })
+    const result = await $fetch<ShiftReply>('/api/shifts', { method: 'POST', body: toBody(draft) })
       .then((shift): ShiftActionResult => ({ ok: true, shift }), failure)
     return report(result, result.ok ? `Shift “${result.shift.title}” planned.` : '')
   }
 
   async function updateShift(id: number, version: number, draft: ShiftDraft) {
-    const result = await $fetch<ShiftItem>(`/api/shifts/${id}`, { method: 'PATCH', body: { ...toBody(draft), version } })
+    const result = await $fetch<ShiftReply>(`/api/shifts/${id}`, { method: 'PATCH', body: { ...toBody(draft), version } })
       .then((shift): ShiftActionResult => ({ ok: true, shift }), failure)
     return report(result, result.ok ? `Shift “${result.shift.title}” saved.` : '')
   }
 
   /** Moves or resizes a shift: start/end as the site's wall clock or ISO instants. */
-  async function moveShift(shift: ShiftItem, start: string, end: string) {
-    const result = await $fetch<ShiftItem>(`/api/shifts/${shift.id}`, { method: 'PATCH', body: { start, end, version: shift.version } })
+  async function moveShift(shift: ShiftReply, start: string, end: string) {
+    const result = await $fetch<ShiftReply>(`/api/shifts/${shift.id}`, { method: 'PATCH', body: { start, end, version: shift.version } })
       .then((moved): ShiftActionResult => ({ ok: true, shift: moved }), failure)
     return report(result, result.ok ? `Moved “${result.shift.title}”: ${describeLightState(result.shift).label}.` : '')
   }
 
-  async function cancelShift(shift: ShiftItem) {
-    const result = await $fetch<ShiftItem>(`/api/shifts/${shift.id}`, { method: 'DELETE', query: { version: shift.version } })
+  async function cancelShift(shift: ShiftReply) {
+    const result = await $fetch<ShiftReply>(`/api/shifts/${shift.id}`, { method: 'DELETE', query: { version: shift.version } })
       .then((): ShiftActionResult => ({ ok: true, shift: { ...shift, cancelled: true, conflicts: [], timeNotes: [] } }), failure)
     return report(result, `Shift “${shift.title}” cancelled.`)
   }

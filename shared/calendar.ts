@@ -4,7 +4,7 @@
 import type { EventInput } from '@fullcalendar/core'
 import type { LightDay } from './light'
 import { addDays, formatDuration, toWallClock } from './format'
-import { describeLightState, type ShiftItem, type SiteItem } from './planning'
+import { describeLightState, type ShiftReply, type SiteItem } from './planning'
 
 export interface SiteLight { site: SiteItem, days: LightDay[] }
 
@@ -31,7 +31,7 @@ export function buildBandEvents(lights: SiteLight[], zone: string): EventInput[]
 }
 
 /** Shifts as calendar events, with their light state as a class (the chip also says it in words). */
-export function buildShiftEvents(shifts: ShiftItem[], zone: string, editable: boolean): EventInput[] {
+export function buildShiftEvents(shifts: ShiftReply[], zone: string, editable: boolean): EventInput[] {
   return shifts.filter(s => !s.cancelled).map(shift => ({
     id: String(shift.id),
     title: shift.title,

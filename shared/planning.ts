@@ -8,9 +8,9 @@ import { MAX_TITLE_LENGTH } from './schemas/limits'
 import { collectFieldIssues } from './schemas/issues'
 import type { Role } from './roles'
 import { REVIEW_REASON_WORDS, REVIEW_STATE_WORDS, describeReviewReason, describeReviewReasonFigure } from './review'
-import type { ReviewState, ShiftConflict, ShiftConflictKind as ConflictKind, ShiftReply as ShiftItem } from './types/shift'
+import type { ReviewState, ShiftConflict, ShiftConflictKind as ConflictKind, ShiftReply } from './types/shift'
 
-export type { ReviewState, ShiftConflict, ShiftReply as ShiftItem } from './types/shift'
+export type { ReviewState, ShiftConflict, ShiftReply } from './types/shift'
 export type { Role }
 export type { ShiftConflictKind as ConflictKind } from './types/shift'
 
@@ -91,11 +91,30 @@ export type LightStateKey = 'clear' | 'flagged' | 'approved' | 'rejected' | 'cha
 
 export interface LightState { key: LightStateKey, label: string, short: string, detail: string }
 
-/** The words for a requirement: `daylight`, `civil light`, `any light`. */
-export const REQUIREMENT_WORDS: Record<LightRequirement, string> = {
+/** A requirement's short name: `daylight`, `civil light`, `any light`. */
+export const REQUIREMENT_NAMES: Record<LightRequirement, string> = {
   daylight: 'daylight',
   civil: 'civil light',
-  any: 'any light (lit work area)'
+  any: 'any light'
+}
+
+/** What a requirement asks of the light (docs/light-model.md, "Requirements"). */
+export const REQUIREMENT_MEANINGS: Record<LightRequirement, string> = {
+  daylight: 'sun above the horizon',
+  civil: 'daylight or civil twilight',
+  any: 'lit work area'
+}
+
+/** `civil light (daylight or civil twilight)`: a requirement with what it means. */
+export function describeRequirement(requirement: LightRequirement): string {
+  return `${REQUIREMENT_NAMES[requirement]} (${REQUIREMENT_MEANINGS[requirement]})`
+}
+
+/** The words for a requirement in a sentence: `daylight`, `civil light`, `any light (lit work area)`. */
+export const REQUIREMENT_WORDS: Record<LightRequirement, string> = {
+  daylight: REQUIREMENT_NAMES.daylight,
+  civil: REQUIREMENT_NAMES.civil,
+  any: describeRequirement('any')
 }
 
 export const BAND_WORDS: Record<BandKind, string> = {
@@ -116,7 +135,7 @@ export const CONFLICT_WORDS: Record<ConflictKind, string> = {
   unavailable: 'Unavailable'
 }
 
-type LightStateShift = Pick<ShiftItem, 'lightCheck' | 'reviewState'> & Partial<Pick<ShiftItem, 'reviewReasonDetails' | 'timezone' | 'review'>>
+type LightStateShift = Pick<ShiftReply, 'lightCheck' | 'reviewState'> & Partial<Pick<ShiftReply, 'reviewReasonDetails' | 'timezone' | 'review'>>
 
 /** The review reasons of a shift in words with their figures; for older replies, the light alone. */
 export function describeShiftReasons(shift: LightStateShift): string[] {

@@ -1,5 +1,5 @@
 // Filtering, sorting and CSV rows for the shift list. Pure: imports neither Vue nor Nitro.
-import { describeLightState, describeShiftReasons, type CrewItem, type PersonItem, type ReviewState, type ShiftItem } from './planning'
+import { describeLightState, describeShiftReasons, type CrewItem, type PersonItem, type ReviewState, type ShiftReply } from './planning'
 import { REVIEW_STATE_WORDS, describeMitigation } from './review'
 import { fromWallClock, toWallClock } from './format'
 
@@ -14,7 +14,7 @@ export interface ShiftFilters {
 export type ShiftSortKey = 'start' | 'site' | 'title' | 'light' | 'minutesBelow' | 'review' | 'people'
 
 /** The shifts that pass every filter; a crew matches a shift when any of its members is on it. */
-export function filterShifts(shifts: ShiftItem[], f: ShiftFilters, crews: CrewItem[]): ShiftItem[] {
+export function filterShifts(shifts: ShiftReply[], f: ShiftFilters, crews: CrewItem[]): ShiftReply[] {
   const crew = f.crewId ? crews.find(c => c.id === f.crewId) : undefined
   const crewIds = new Set(crew?.members.map(m => m.id) ?? [])
   return shifts.filter(s => !s.cancelled
@@ -25,7 +25,7 @@ export function filterShifts(shifts: ShiftItem[], f: ShiftFilters, crews: CrewIt
     && (f.flagged === 'all' || (f.flagged === 'flagged') === s.lightCheck.flagged))
 }
 
-const SORT_VALUE: Record<ShiftSortKey, (s: ShiftItem) => string | number> = {
+const SORT_VALUE: Record<ShiftSortKey, (s: ShiftReply) => string | number> = {
   start: s => Date.parse(s.start),
   site: s => s.siteName.toLocaleLowerCase('en'),
   title: s => s.title.toLocaleLowerCase('en'),
@@ -36,7 +36,7 @@ const SORT_VALUE: Record<ShiftSortKey, (s: ShiftItem) => string | number> = {
 }
 
 /** A sorted copy; ties keep start order so the list stays predictable. */
-export function sortShifts(shifts: ShiftItem[], key: ShiftSortKey, direction: 'asc' | 'desc'): ShiftItem[] {
+export function sortShifts(shifts: ShiftReply[], key: ShiftSortKey, direction: 'asc' | 'desc'): ShiftReply[] {
   const value = SORT_VALUE[key]
   const sign = direction === 'asc' ? 1 : -1
   return [...shifts].sort((a, b) => {
@@ -68,7 +68,7 @@ export function formatCsvTime(iso: string, timezone: string): string {
 }
 
 /** One CSV row per shown shift; people as e-mail addresses (the import's key), times on the site's clock. */
-export function toShiftCsvRows(shifts: ShiftItem[], people: Pick<PersonItem, 'id' | 'email'>[] = []) {
+export function toShiftCsvRows(shifts: ShiftReply[], people: Pick<PersonItem, 'id' | 'email'>[] = []) {
   const emailOf = new Map(people.map(p => [p.id, p.email]))
   return shifts.map(s => ({
     id: s.id,

@@ -5,6 +5,7 @@ import { z } from 'zod'
 import { classifyFrostbiteRisk, computeWindChill } from '../core/cold/index'
 import type { FrostbiteRisk } from '../core/cold/index'
 import { nowDate } from '../core/time/clock'
+import { findLowestBy, findWindowExtremes } from '../../shared/weather-window'
 
 const HOUR_MS = 3_600_000
 const DEFAULT_FORECAST_TIMEOUT_MS = 5000
@@ -218,14 +219,10 @@ function selectHoursForWindow(hours: ForecastHour[], startMs: number, endMs: num
 }
 
 function findWorstWindChill(hours: ForecastHour[]): ForecastWindowSummary['worstWindChill'] {
-  let worst: ForecastWindowSummary['worstWindChill'] = null
-  for (const hour of hours) {
-    const chill = computeWindChill(hour.temperatureC!, hour.windKmh!, 'metric')
-    if (chill.exact !== null && (worst === null || chill.exact < worst.exactC)) {
-      worst = { exactC: chill.exact, roundedC: chill.rounded!, at: hour.at, frostbite: classifyFrostbiteRisk(chill.exact) }
-    }
-  }
-  return worst
+  const worst = findLowestBy(hours, hour => computeWindChill(hour.temperatureC!, hour.windKmh!, 'metric').exact)
+  if (!worst) return null
+  const chill = computeWindChill(worst.sample.temperatureC!, worst.sample.windKmh!, 'metric')
+  return { exactC: worst.value, roundedC: chill.rounded!, at: worst.sample.at, frostbite: classifyFrostbiteRisk(worst.value) }
 }
 
 /** Summarises the forecast over [startMs, endMs]: coldest, windiest, worst wind chill; null when not covered. */
@@ -234,14 +231,11 @@ export function summariseForecastForWindow(hours: ForecastHour[], startMs: numbe
   const used = selectHoursForWindow(hours, startMs, endMs)
   // An hour without temperature or wind leaves the window's coldest or windiest moment unknown.
   if (!used || used.some(h => h.temperatureC === null || h.windKmh === null)) return null
-  const gusts = used.map(h => h.gustKmh).filter((g): g is number => g !== null)
   return {
     firstHourAt: used[0]!.at,
     lastHourAt: used[used.length - 1]!.at,
     hoursUsed: used.length,
-    coldestTemperatureC: Math.min(...used.map(h => h.temperatureC!)),
-    strongestWindKmh: Math.max(...used.map(h => h.windKmh!)),
-    strongestGustKmh: gusts.length > 0 ? Math.max(...gusts) : null,
+    ...findWindowExtremes(used)!,
     worstWindChill: findWorstWindChill(used)
   }
 }

@@ -6,6 +6,7 @@ import { and, asc, eq, gt, inArray, isNull, lt } from 'drizzle-orm'
 import { people, shiftAssignees, shifts, sites, type Person, type Shift, type Site } from '../db/schema'
 import type { LightPeriod, LightPeriodMs, LightRequirement } from '../../shared/light'
 import { COLD_CAUTIONS } from '../../shared/cold'
+import { REQUIREMENT_NAMES, describeRequirement } from '../../shared/planning'
 import { addDays, formatDate, formatDuration, formatLocalTime, formatUtcOffset } from '../../shared/format'
 import { REVIEW_STATE_WORDS, describeMitigation, describeReviewReason } from '../../shared/review'
 import type { AppDatabase } from '../utils/db'
@@ -114,12 +115,6 @@ export interface CrewSiteView {
   zoneNote: string
   forecastNote: string
   days: CrewDay[]
-}
-
-const REQUIREMENT_WORDS: Record<LightRequirement, string> = {
-  daylight: 'Needs daylight (sun above the horizon)',
-  civil: 'Needs civil light (daylight or civil twilight)',
-  any: 'Lit work area (works in any light)'
 }
 
 /** The zone a person's times are written in: the site's own, or the one they chose in settings. */
@@ -299,7 +294,7 @@ function collectLightCrewCautions(requirement: LightRequirement, minutesBelow: n
   const text = 'Past civil dusk, outdoor work normally needs artificial light, and even in civil twilight natural light is far below task lighting. Bring and check your lights, wear high-visibility clothing, and keep to the measures the safety review set.'
   const litText = 'The work area is meant to be lit, but getting there and back, and anything outside the lit area, is in the dark. Check the lighting before you start, carry a head torch, and wear high-visibility clothing.'
   if (requirement !== 'any' && minutesBelow >= 1) {
-    const need = requirement === 'daylight' ? 'daylight' : 'civil light'
+    const need = REQUIREMENT_NAMES[requirement]
     return [{ key: 'below-light', tone: 'caution', title: `${formatDuration(minutesBelow)} of this shift without the ${need} it needs`, figure: darkMinutes ? `${formatDuration(darkMinutes)} in nautical twilight or darker` : null, text }]
   }
   if (requirement === 'any' && darkMinutes >= 1) {
@@ -342,7 +337,7 @@ export function describeCrewShift(input: ShiftDescriptionInput): CrewShift {
   return {
     id: row.id, siteId: row.siteId, title: row.title,
     start: formatZonedIso(startMs, zone), end: formatZonedIso(endMs, zone), span: describeCrewSpan(startMs, endMs, zone), ...splitCrewSpan(startMs, endMs, zone),
-    requirement: row.light, requirementWords: REQUIREMENT_WORDS[row.light],
+    requirement: row.light, requirementWords: `Needs ${describeRequirement(row.light)}`,
     minutesBelow: row.minutesBelow, flagged: row.flagged,
     lightState: describeLightState(row.light, row.minutesBelow, bandMinutes.dark),
     bandMinutes, profileText: describeProfile(bandMinutes),

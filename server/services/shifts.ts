@@ -6,7 +6,7 @@ import { fieldError } from '../utils/errors'
 import { checkShiftLight, computeOutingWindow } from '../core/light/check'
 import { InstantSchema, LocalDateSchema } from '../utils/validation'
 import { formatZonedIso, localMidnightMs, resolveLocalOrInstant } from '../core/time/zoned'
-import type { ShiftConflict, ShiftReply as ShiftView, ShiftReview as ShiftReviewSummary } from '../../shared/types/shift'
+import type { ShiftConflict, ShiftReply, ShiftReview as ShiftReviewSummary } from '../../shared/types/shift'
 import { computeStoredShiftConflicts } from './conflict-context'
 import { attachWeatherHolds } from './holds'
 import { nowMs } from '../core/time/clock'
@@ -22,10 +22,10 @@ export const ShiftListQuerySchema = z.object({
   personId: z.coerce.number().int().positive().optional()
 })
 
-export type { ShiftReply as ShiftView, ShiftReview as ShiftReviewSummary } from '../../shared/types/shift'
+export type { ShiftReply, ShiftReview as ShiftReviewSummary } from '../../shared/types/shift'
 
 /** Shapes a stored shift for the API, with its times in the site's zone. */
-export function toShiftView(row: Shift, site: Pick<Site, 'name' | 'timezone'>, assignees: { id: number, name: string }[], review: ShiftReviewSummary | null = null, conflicts: ShiftConflict[] = []): ShiftView {
+export function toShiftView(row: Shift, site: Pick<Site, 'name' | 'timezone'>, assignees: { id: number, name: string }[], review: ShiftReviewSummary | null = null, conflicts: ShiftConflict[] = []): ShiftReply {
   const outing = computeOutingWindow(row.startAt.getTime(), row.endAt.getTime(), row.travelMinutes)
   return {
     id: row.id,
@@ -143,7 +143,7 @@ export function requireAssignees(db: Pick<AppDatabase, 'select'>, ids: number[])
 }
 
 /** Shifts overlapping a range: local dates are read in each site's own zone, `to` exclusive. */
-export function findShiftsInRange(db: AppDatabase, query: z.infer<typeof ShiftListQuerySchema>): ShiftView[] {
+export function findShiftsInRange(db: AppDatabase, query: z.infer<typeof ShiftListQuerySchema>): ShiftReply[] {
   const siteRows = db.select().from(sites).where(query.siteId ? eq(sites.id, query.siteId) : undefined).all()
   if (!siteRows.length) return []
   const bounds = new Map(siteRows.map(site => [site.id, rangeForSite(query.from, query.to, site.timezone)]))
@@ -192,7 +192,7 @@ function rangeForSite(from: string | undefined, to: string | undefined, timezone
 }
 
 /** One shift as the API shows it, or undefined. */
-export function findShiftView(db: AppDatabase, id: number): ShiftView | undefined {
+export function findShiftView(db: AppDatabase, id: number): ShiftReply | undefined {
   const row = db.select().from(shifts).where(eq(shifts.id, id)).get()
   if (!row) return undefined
   const site = db.select().from(sites).where(eq(sites.id, row.siteId)).get()!

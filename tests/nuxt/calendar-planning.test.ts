@@ -1,12 +1,12 @@
 import { describe, expect, it } from 'vitest'
 import { buildBandEvents, buildShiftEvents, calendarRange, summariseDay, wallFromCalendarDate } from '../../shared/calendar'
-import { validateShiftDraft, type ShiftDraft, type ShiftItem, type SiteItem } from '../../shared/planning'
+import { validateShiftDraft, type ShiftDraft, type ShiftReply, type SiteItem } from '../../shared/planning'
 import { filterShifts, formatCsvTime, sortShifts, toShiftCsvRows } from '../../shared/shift-table'
 import { useCalendarStore } from '../../stores/calendar'
 
 // Invented demo data (not a reference).
 const SITE: SiteItem = { id: 1, name: 'Test Fjord Camp', latitude: 78.2, longitude: 15.6, elevation: null, timezone: 'Europe/Oslo', defaultLight: 'civil', notes: '', archivedAt: null }
-function shiftItem(id: number, over: Partial<ShiftItem> = {}): ShiftItem {
+function shiftItem(id: number, over: Partial<ShiftReply> = {}): ShiftReply {
   return {
     id, siteId: 1, siteName: 'Test Fjord Camp', timezone: 'Europe/Oslo', title: `Task ${id}`,
     start: '2027-03-02T10:00:00+01:00', end: '2027-03-02T13:00:00+01:00', light: 'civil', notes: '',

@@ -13,7 +13,7 @@ import {
   type WeatherSample,
   type WindowWeather
 } from '../../server/core/review/queue'
-import type { ShiftView } from '../../server/services/shifts'
+import type { ShiftReply } from '../../server/services/shifts'
 
 const MIN = 60_000
 const HOUR = 3_600_000
@@ -45,7 +45,7 @@ const NO_WEATHER: WindowWeather = {
   figures: null
 }
 
-function shift(overrides: Partial<ShiftView> = {}): ShiftView {
+function shift(overrides: Partial<ShiftReply> = {}): ShiftReply {
   return {
     id: 1, siteId: 1, siteName: 'Invented site', timezone: ZONE, title: 'Invented task',
     start: '2026-12-14T09:00:00+01:00', end: '2026-12-14T13:00:00+01:00', light: 'daylight', notes: '',

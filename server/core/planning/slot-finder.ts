@@ -6,6 +6,7 @@
 import { BANDS_MEETING_REQUIREMENT, type LightDayMs, type LightRequirement } from '../../../shared/light'
 import type { SlotRank, SlotReasonCode } from '../../../shared/outlook'
 import { formatDate, formatDuration } from '../../../shared/format'
+import { describeRequirement } from '../../../shared/planning'
 import { findFirstStartAtOrAfter, findShiftConflicts, type BlockedSpan, type ConflictContext, type NeighbourShift, type ShiftConflictKind, type WorkRules } from './conflicts'
 
 const MINUTE_MS = 60_000
@@ -243,10 +244,8 @@ export function findSlots(input: SlotSearchInput): SlotSearchOutcome {
   return { slots, ...explainNoSlot(input, [...scans.values()]), daysWithSlots, daysSearched }
 }
 
-const REQUIREMENT_TEXT: Record<LightRequirement, string> = {
-  daylight: 'daylight (sun above the horizon)',
-  civil: 'civil light (daylight or civil twilight)',
-  any: 'the window'
+function describeSoughtLight(requirement: LightRequirement): string {
+  return requirement === 'any' ? 'the window' : describeRequirement(requirement)
 }
 
 // Longest stretch of usable light that starts on a day of the window, for the "no light" reason.
@@ -258,8 +257,8 @@ function describeLongestLight(input: SlotSearchInput): string {
     const minutes = Math.round((interval.endMs - interval.startMs) / MINUTE_MS)
     if (!best || minutes > best.minutes) best = { minutes, date: day.date }
   }
-  if (!best) return `There is no ${REQUIREMENT_TEXT[input.requirement]} at all at this site from ${formatDate(input.from)} to ${formatDate(input.to)}.`
-  return `The longest stretch of ${REQUIREMENT_TEXT[input.requirement]} from ${formatDate(input.from)} to ${formatDate(input.to)} is ${formatDuration(best.minutes)}, on ${formatDate(best.date)}; the task needs ${formatDuration(input.durationMinutes)}${input.travelMinutes ? ` plus ${formatDuration(input.travelMinutes)} of travel each way` : ''}.`
+  if (!best) return `There is no ${describeSoughtLight(input.requirement)} at all at this site from ${formatDate(input.from)} to ${formatDate(input.to)}.`
+  return `The longest stretch of ${describeSoughtLight(input.requirement)} from ${formatDate(input.from)} to ${formatDate(input.to)} is ${formatDuration(best.minutes)}, on ${formatDate(best.date)}; the task needs ${formatDuration(input.durationMinutes)}${input.travelMinutes ? ` plus ${formatDuration(input.travelMinutes)} of travel each way` : ''}.`
 }
 
 function explainNoSlot(input: SlotSearchInput, scans: DayScan[]): { reason: string, reasonCode: SlotReasonCode } {

@@ -6,8 +6,9 @@ import { COLD_CAUTIONS, type FrostbiteRiskKey } from '../../../shared/cold'
 import { formatSigned } from '../../../shared/review'
 import { formatDuration, formatLocalTime, formatUtcOffset } from '../../../shared/format'
 import { classifyFrostbiteRisk, computeWindChill, lookupWarmupSchedule, type WarmupSchedule } from '../cold/index'
-import type { ShiftReply as ShiftView } from '../../../shared/types/shift'
+import type { ShiftReply } from '../../../shared/types/shift'
 import { formatZonedIso } from '../time/zoned'
+import { findLowestBy, findWindowExtremes } from '../../../shared/weather-window'
 
 const MINUTE_MS = 60_000
 // Frostbite bands from which exposed skin can freeze within 30 minutes (ECCC wind chill table).
@@ -89,8 +90,8 @@ export interface ReviewCrew {
 }
 
 export interface ReviewQueueItem {
-  shift: ShiftView
-  /** An earlier decision exists but the shift changed after it (ShiftView.review.current is false). */
+  shift: ShiftReply
+  /** An earlier decision exists but the shift changed after it (ShiftReply.review.current is false). */
   changedSinceReview: boolean
   light: {
     requirement: LightRequirement
@@ -160,22 +161,18 @@ function pickWorstWarmupHour(samples: WeatherSample[], bands: LightPeriodMs[], t
 }
 
 function findWorstWindChill(samples: WeatherSample[], timezone: string): ColdWindowFigures['worstWindChill'] {
-  let worst: ColdWindowFigures['worstWindChill'] = null
-  for (const s of samples) {
-    const chill = computeWindChill(s.temperatureC, s.windKmh, 'metric')
-    if (chill.exact !== null && (worst === null || chill.exact < worst.exactC)) {
-      worst = { roundedC: chill.rounded!, exactC: chill.exact, at: formatZonedIso(s.atMs, timezone) }
-    }
-  }
-  return worst
+  const worst = findLowestBy(samples, s => computeWindChill(s.temperatureC, s.windKmh, 'metric').exact)
+  if (!worst) return null
+  const chill = computeWindChill(worst.sample.temperatureC, worst.sample.windKmh, 'metric')
+  return { roundedC: chill.rounded!, exactC: worst.value, at: formatZonedIso(worst.sample.atMs, timezone) }
 }
 
 /** Cold figures over the samples of a shift's window: coldest, windiest, worst wind chill, frostbite band, worst warm-up hour. */
 export function summariseColdForWindow(samples: WeatherSample[], bands: LightPeriodMs[], timezone: string): ColdWindowFigures | null {
   if (!samples.length) return null
   const sorted = [...samples].sort((a, b) => a.atMs - b.atMs)
-  const coldest = Math.min(...sorted.map(s => s.temperatureC))
-  const gusts = sorted.map(s => s.gustKmh).filter((g): g is number => g !== null)
+  const extremes = findWindowExtremes(sorted)!
+  const coldest = extremes.coldestTemperatureC
   const worstWindChill = findWorstWindChill(sorted, timezone)
   // ECCC bands are read on the wind chill; where the index is undefined, on the air temperature (as cold.ts does).
   const band = classifyFrostbiteRisk(worstWindChill ? worstWindChill.exactC : coldest)
@@ -185,9 +182,7 @@ export function summariseColdForWindow(samples: WeatherSample[], bands: LightPer
     samples: sorted.length,
     first: formatZonedIso(sorted[0]!.atMs, timezone),
     last: formatZonedIso(sorted[sorted.length - 1]!.atMs, timezone),
-    coldestTemperatureC: coldest,
-    strongestWindKmh: Math.max(...sorted.map(s => s.windKmh)),
-    strongestGustKmh: gusts.length ? Math.max(...gusts) : null,
+    ...extremes,
     worstWindChill,
     frostbite: { key: band.key, label: band.label, minMinutes: band.minMinutes, maxMinutes: band.maxMinutes, basis: worstWindChill ? 'wind-chill' : 'air-temperature' },
     warmup,
@@ -264,7 +259,7 @@ function collectCrewCautions(crew: ReviewCrew): ReviewCaution[] {
   return []
 }
 
-function collectWorkRuleCautions(conflicts: ShiftView['conflicts']): ReviewCaution[] {
+function collectWorkRuleCautions(conflicts: ShiftReply['conflicts']): ReviewCaution[] {
   if (!conflicts?.length) return []
   return [{
     key: 'work-rules', tone: 'caution', general: false,
@@ -277,7 +272,7 @@ function collectWorkRuleCautions(conflicts: ShiftView['conflicts']): ReviewCauti
 const GENERAL_COLD_KEYS = ['exposed-skin-only', 'frostbite-signs', 'hypothermia-signs', 'wet-clothing', 'warm-shelter'] as const
 
 /** The cautions for a queue item, most pressing first; general cold guidance last, flagged as general. */
-export function collectReviewCautions(input: { minutesBelow: number, requirement: LightRequirement, bandMinutes: Record<BandKind, number>, crew: ReviewCrew, weather: WindowWeather, timezone: string, conflicts?: ShiftView['conflicts'] }): ReviewCaution[] {
+export function collectReviewCautions(input: { minutesBelow: number, requirement: LightRequirement, bandMinutes: Record<BandKind, number>, crew: ReviewCrew, weather: WindowWeather, timezone: string, conflicts?: ShiftReply['conflicts'] }): ReviewCaution[] {
   const cold = input.weather.figures === null || input.weather.figures.coldestTemperatureC <= COLD_CAUTION_FROM_C
   const general: ReviewCaution[] = cold
     ? GENERAL_COLD_KEYS.map(key => ({ key, tone: 'caution' as const, general: true, title: GENERAL_TITLES[key], text: COLD_CAUTIONS[key] }))
@@ -302,7 +297,7 @@ const GENERAL_TITLES: Record<typeof GENERAL_COLD_KEYS[number], string> = {
 }
 
 /** Assembles one queue item from a shift, its light profile and the weather over its window. */
-export function shapeReviewQueueItem(shift: ShiftView, check: { minutesBelow: number, bands: LightPeriodMs[] }, weather: WindowWeather): ReviewQueueItem {
+export function shapeReviewQueueItem(shift: ShiftReply, check: { minutesBelow: number, bands: LightPeriodMs[] }, weather: WindowWeather): ReviewQueueItem {
   const bandMinutes = sumBandMinutes(check.bands)
   const crew = describeReviewCrew(shift.assignees)
   const requirement = shift.light
