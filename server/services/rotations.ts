@@ -83,6 +83,42 @@ interface CheckedPlan extends PlannedShift {
   reviewReasons: ReviewReasonDetail[]
 }
 
+/** One shift to judge: its times, the light it needs, its travel each way and how many people. */
+export interface ShiftToJudge {
+  startMs: number
+  endMs: number
+  light: Shift['light']
+  travelMinutes: number
+  assigneeCount: number
+}
+
+/**
+ * Judges many shifts of one site as the shift service judges a single one (light check over the
+ * outing, review reasons), reading the work rules, forecast and site readings once for all of them.
+ */
+export function judgeSiteShifts(db: Pick<AppDatabase, 'select'>, site: Site, items: ShiftToJudge[]) {
+  if (!items.length) return []
+  let fromMs = Infinity
+  let toMs = -Infinity
+  for (const i of items) {
+    fromMs = Math.min(fromMs, i.startMs - i.travelMinutes * 60_000)
+    toMs = Math.max(toMs, i.endMs + i.travelMinutes * 60_000)
+  }
+  const preloaded = {
+    rules: loadWorkRules(db),
+    forecast: loadSiteForecast(db, site.id, clockNowMs()),
+    readings: loadSiteObservations(db, site.id, fromMs - 3 * HOUR_MS, toMs)
+  }
+  return items.map((i) => {
+    const check = computeStoredCheck(site, i.startMs, i.endMs, i.light, i.travelMinutes)
+    const reviewReasons = assessShiftReview(db, {
+      site, window: computeOutingWindow(i.startMs, i.endMs, i.travelMinutes), startMs: i.startMs, endMs: i.endMs,
+      lightCheck: { ...check, requirement: i.light }, assigneeCount: i.assigneeCount, preloaded
+    })
+    return { ...check, reviewReasons }
+  })
+}
+
 function checkPlan(db: Pick<AppDatabase, 'select'>, site: Site, input: RotationInput, personIds: number[]): CheckedPlan[] {
   const planned = expandRotation(cycleOf(input), site.timezone)
   const travel = input.travelMinutes ?? site.travelMinutes
@@ -90,24 +126,12 @@ function checkPlan(db: Pick<AppDatabase, 'select'>, site: Site, input: RotationI
     loadConflictContext(db, planned.map(p => ({ startMs: p.startMs, endMs: p.endMs, personIds }))),
     plannedNeighbours(planned, personIds, input.title, site.name)
   )
-  // each shift is judged as the shift service judges a single one: light check, review reasons,
-  // conflicts; the rules, forecast and site readings are read once for all of them
-  const first = planned[0]?.startMs ?? 0
-  const last = planned.at(-1)?.endMs ?? 0
-  const travelMs = travel * 60_000
-  const preloaded = {
-    rules: loadWorkRules(db),
-    forecast: loadSiteForecast(db, site.id, clockNowMs()),
-    readings: loadSiteObservations(db, site.id, first - travelMs - 3 * HOUR_MS, last + travelMs)
-  }
-  return planned.map((p) => {
-    const check = computeStoredCheck(site, p.startMs, p.endMs, input.light, travel)
-    const reviewReasons = assessShiftReview(db, {
-      site, window: computeOutingWindow(p.startMs, p.endMs, travel), startMs: p.startMs, endMs: p.endMs,
-      lightCheck: { ...check, requirement: input.light }, assigneeCount: personIds.length, preloaded
-    })
-    return { ...p, ...check, reviewReasons, conflicts: checkConflictsWith(loaded, { shiftId: -1 - p.index, startMs: p.startMs, endMs: p.endMs, personIds }) }
-  })
+  const judged = judgeSiteShifts(db, site, planned.map(p => ({ startMs: p.startMs, endMs: p.endMs, light: input.light, travelMinutes: travel, assigneeCount: personIds.length })))
+  return planned.map((p, i) => ({
+    ...p,
+    ...judged[i]!,
+    conflicts: checkConflictsWith(loaded, { shiftId: -1 - p.index, startMs: p.startMs, endMs: p.endMs, personIds })
+  }))
 }
 
 /** What POST /api/rotations would make, without writing: every shift over the light, worst days first. */

@@ -70,6 +70,7 @@ const ACCESS: Record<string, Role[] | 'public'> = {
   'shifts/[id].delete': ['coordinator'],
   'rotations/index.post': ['coordinator'],
   'rotations/preview.post': ['coordinator'],
+  'rotations/copy-week.post': ['coordinator'],
   'rotations/[id].get': ['coordinator', 'safety'],
   'rotations/[id].patch': ['coordinator'],
   'rotations/[id].delete': ['coordinator'],

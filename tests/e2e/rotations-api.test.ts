@@ -103,6 +103,27 @@ describe('rotation routes', () => {
     expect(gone.every((s: { start: string }) => s.start.slice(0, 10) >= '2027-11-10')).toBe(true)
   })
 
+  it('copies a week: 400 naming weekStart for an empty week, 201 with the copies otherwise, each an ordinary shift', async () => {
+    const empty = await coordinator.post('/api/rotations/copy-week', { siteId: ids.site, weekStart: '2028-03-06', weeks: 1 })
+    expect(empty.status).toBe(400)
+    expect(empty.body.message).toContain('weekStart')
+    const tooMany = await coordinator.post('/api/rotations/copy-week', { siteId: ids.site, weekStart: '2028-03-06', weeks: 13 })
+    expect(tooMany.status).toBe(400)
+    expect(tooMany.body.message).toContain('weeks')
+    const made = await coordinator.post('/api/shifts', { siteId: ids.site, title: 'Odd week task', light: 'civil', start: '2028-03-07T11:00', end: '2028-03-07T13:30', assigneeIds: [ids.person] })
+    expect(made.status).toBe(201)
+    const copied = await coordinator.post('/api/rotations/copy-week', { siteId: ids.site, weekStart: '2028-03-06', weeks: 3 })
+    expect(copied.status).toBe(201)
+    expect(copied.body.created).toBe(3)
+    for (const id of copied.body.shiftIds) {
+      const s = (await coordinator.get(`/api/shifts/${id}`)).body
+      expect(intlWall(s.start).slice(11)).toBe('11:00')
+      expect(intlWall(s.end).slice(11)).toBe('13:30')
+      expect(s.assigneeIds).toEqual([ids.person])
+      expect(s.rotationId).toBeNull()
+    }
+  })
+
   it('answers 400 naming fromDate for a change without it, and 404 for an unknown rotation', async () => {
     const noDate = await coordinator.patch('/api/rotations/1', { title: 'x' })
     expect(noDate.status).toBe(400)

@@ -10,6 +10,7 @@ import { buildReviewQueue, ReviewBodySchema, ReviewQueueQuerySchema } from '../.
 import { createShift, updateShift } from '../../server/services/shift-writes'
 import { findShiftView } from '../../server/services/shifts'
 import { ShiftBodySchema } from '../../shared/schemas/shift'
+import { copySiteWeek } from '../../server/services/week-copy'
 import { BANDS_MEETING_REQUIREMENT } from '../../shared/light'
 import { createTestDatabase, removeTestDatabases } from '../support/test-database'
 import { ReferenceTimeline, REFERENCE_THRESHOLDS, referenceAltitude, referenceMinutesOutside } from './reference/sun-reference'
@@ -188,6 +189,31 @@ describe('a rotation on a database', () => {
       expect(s.reviewState).toBe('pending')
       expect(s.lightCheck.flagged).toBe(false)
     }
+  })
+
+  it('copies a week into the next ones on the same wall-clock times, across the autumn change; an empty week is refused naming weekStart', () => {
+    const { db, site, coord, ana } = setup()
+    // Mon 25 Oct 2027 08:00–12:00 (+02:00) and a night shift Thu 28 Oct 22:00 – Fri 06:00
+    const day = createShift(db, coord, ShiftBodySchema.parse({ siteId: site.id, title: 'Day task', light: 'daylight', start: '2027-10-25T08:00', end: '2027-10-25T12:00', assigneeIds: [ana.id] }))
+    createShift(db, coord, ShiftBodySchema.parse({ siteId: site.id, title: 'Night task', light: 'any', start: '2027-10-28T22:00', end: '2027-10-29T06:00', assigneeIds: [] }))
+    const { created, shiftIds } = copySiteWeek(db, coord, { siteId: site.id, weekStart: '2027-10-25', weeks: 2 })
+    expect(created).toBe(4)
+    const copies = shiftIds.map(id => findShiftView(db, id)!)
+    const walls = copies.map(c => `${c.title}: ${intlWall(Date.parse(c.start))} – ${intlWall(Date.parse(c.end))}`).sort()
+    expect(walls).toEqual([
+      'Day task: 2027-11-01 08:00 – 2027-11-01 12:00',
+      'Day task: 2027-11-08 08:00 – 2027-11-08 12:00',
+      'Night task: 2027-11-04 22:00 – 2027-11-05 06:00',
+      'Night task: 2027-11-11 22:00 – 2027-11-12 06:00'
+    ])
+    // after the change the offset is +01:00 (tz data via Intl), so the copies are not simply 7 × 24 h later
+    expect(Date.parse(copies[0]!.start) - Date.parse(findShiftView(db, day.id)!.start)).toBe(7 * 24 * HOUR_MS + HOUR_MS)
+    expect(copies.filter(c => c.title === 'Day task').every(c => c.assigneeIds[0] === ana.id)).toBe(true)
+    for (const c of copies) {
+      const ref = referenceCheck(Date.parse(c.start), Date.parse(c.end))
+      if (c.light === 'daylight') expect(Math.abs(c.lightCheck.minutesBelow - ref.minutes)).toBeLessThanOrEqual(ref.allowance)
+    }
+    expect(() => copySiteWeek(db, coord, { siteId: site.id, weekStart: '2027-12-06', weeks: 1 })).toThrow(/weekStart/)
   })
 
   it('writes nothing when a person is unknown', () => {
