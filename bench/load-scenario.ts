@@ -2,10 +2,11 @@ import type { AppDatabase } from '../server/utils/db'
 import { checkShiftLight } from '../server/core/light/check'
 import { localDateOf } from '../server/core/time/zoned'
 import { addDays } from '../shared/format'
-import { people, shiftAssignees, shifts, sites } from '../server/db/schema'
+import { people, sites } from '../server/db/schema'
 
-// A synthetic load scenario (benchmarks only): 6 sites, 50 people, 2,000 shifts over half a year
-// (about 78 a week across the sites, two people each: a busy but plannable roster).
+// A synthetic load scenario (benchmarks only): 6 sites, 50 people, a busy calendar week of 592
+// shifts (two people each) and other shifts around it: 1,408 over half a year (2,000 in all, a young
+// database), or 99,408 over five years before it (100,000 in all, the same week in year five).
 const SITES = [
   { name: 'Load site 78N', latitude: 78.22, longitude: 15.63, timezone: 'Arctic/Longyearbyen' },
   { name: 'Load site 69N', latitude: 69.65, longitude: 18.96, timezone: 'Europe/Oslo' },
@@ -14,38 +15,54 @@ const SITES = [
   { name: 'Load site 60N', latitude: 60.39, longitude: 5.32, timezone: 'Europe/Oslo' },
   { name: 'Load site 78S', latitude: -77.85, longitude: 166.68, timezone: 'Antarctica/McMurdo' }
 ]
+export const WEEK_SHIFTS = 592
+const DAY_MS = 86_400_000
+const QUARTER_MS = 900_000
+const LIGHTS = ['daylight', 'civil', 'any'] as const
 
 /** Fills an empty, migrated database; returns the figures the load run needs. */
-export function seedLoadScenario(db: AppDatabase, passwordHash: string, now: number) {
-  return db.transaction((tx) => {
-    const personRows = tx.insert(people).values(Array.from({ length: 50 }, (_, i) => ({
-      name: `Load Person ${i + 1}`, email: `load${i + 1}@load.test`, role: i === 0 ? 'coordinator' as const : (i < 4 ? 'safety' as const : 'crew' as const), passwordHash
-    }))).returning().all()
-    const siteRows = tx.insert(sites).values(SITES).returning().all()
-    const ids: number[] = []
-    const startDay = now - 90 * 86_400_000
-    const step = (180 * 86_400_000) / 2000
-    for (let i = 0; i < 2000; i++) {
-      const site = siteRows[i % siteRows.length]!
-      const startMs = startDay + Math.round(i * step / 900_000) * 900_000
-      const endMs = startMs + (4 + (i % 5)) * 3_600_000
-      const light = (['daylight', 'civil', 'any'] as const)[i % 3]!
-      const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: light })
-      const row = tx.insert(shifts).values({ siteId: site.id, title: `Load shift ${i + 1}`, startAt: new Date(startMs), endAt: new Date(endMs), light, minutesBelow: check.minutesBelow, flagged: check.flagged, reviewState: check.flagged ? 'pending' : 'not-needed' }).returning({ id: shifts.id }).get()
-      tx.insert(shiftAssignees).values([0, 1].map(k => ({ shiftId: row.id, personId: personRows[4 + ((i * 2 + k) % 46)]!.id }))).run()
-      ids.push(row.id)
-    }
-    const today = localDateOf(now, 'UTC')
-    return {
-      shifts: ids.length,
-      people: personRows.length,
-      sites: siteRows.length,
-      coordinatorEmail: personRows[0]!.email,
-      weekFrom: today,
-      weekTo: addDays(today, 7),
-      monthFrom: today,
-      monthTo: addDays(today, 30),
-      contestedShiftIds: ids.slice(1000, 1005)
-    }
-  })
+export function seedLoadScenario(db: AppDatabase, passwordHash: string, now: number, options: { totalShifts?: number } = {}) {
+  const total = options.totalShifts ?? 2_000
+  const today = localDateOf(now, 'UTC')
+  const weekStart = Date.parse(`${today}T00:00:00Z`)
+  const personRows = db.insert(people).values(Array.from({ length: 50 }, (_, i) => ({
+    name: `Load Person ${i + 1}`, email: `load${i + 1}@load.test`, role: i === 0 ? 'coordinator' as const : (i < 4 ? 'safety' as const : 'crew' as const), passwordHash
+  }))).returning().all()
+  const siteRows = db.insert(sites).values(SITES).returning().all()
+  const sqlite = db.$client
+  const insertShift = sqlite.prepare(`insert into shifts (site_id, title, start_at, end_at, light, minutes_below, flagged, review_state, created_at, updated_at)
+    values (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`)
+  const insertAssignee = sqlite.prepare('insert into shift_assignees (shift_id, person_id) values (?, ?)')
+  const ids: number[] = []
+  const add = (i: number, startMs: number) => {
+    const site = siteRows[i % siteRows.length]!
+    const endMs = startMs + (4 + (i % 5)) * 3_600_000
+    const light = LIGHTS[i % 3]!
+    const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: light })
+    const id = Number(insertShift.run(site.id, `Load shift ${i + 1}`, startMs, endMs, light, check.minutesBelow, check.flagged ? 1 : 0, check.flagged ? 'pending' : 'not-needed', now, now).lastInsertRowid)
+    insertAssignee.run(id, personRows[4 + ((i * 2) % 46)]!.id)
+    insertAssignee.run(id, personRows[4 + ((i * 2 + 1) % 46)]!.id)
+    return id
+  }
+  const others = total - WEEK_SHIFTS
+  sqlite.transaction(() => {
+    // the week: 592 shifts spread over its 7 days on the quarter hour
+    for (let i = 0; i < WEEK_SHIFTS; i++) ids.push(add(i, weekStart + Math.floor(i * (7 * DAY_MS - 9 * 3_600_000) / WEEK_SHIFTS / QUARTER_MS) * QUARTER_MS))
+    // the rest before it (five years, or half a year for the young database), none inside the week
+    const spanMs = (total > 10_000 ? 5 * 365 : 180) * DAY_MS
+    for (let k = 0; k < others; k++) add(WEEK_SHIFTS + k, weekStart - spanMs + Math.floor(k * (spanMs - DAY_MS) / others / QUARTER_MS) * QUARTER_MS)
+  })()
+  return {
+    shifts: total,
+    people: personRows.length,
+    sites: siteRows.length,
+    coordinatorEmail: personRows[0]!.email,
+    emails: personRows.map(p => p.email),
+    siteNames: siteRows.map(s => s.name),
+    weekFrom: today,
+    weekTo: addDays(today, 7),
+    monthFrom: today,
+    monthTo: addDays(today, 30),
+    contestedShiftIds: ids.slice(100, 105)
+  }
 }

@@ -1,13 +1,15 @@
 // Loads from the database what the pure conflict check needs, for one shift or a whole listed range
 // at once: one query for the assignees' neighbouring shifts, one for their blocked spans, one for
 // their names, all over the range widened by the rest period.
-import { and, eq, gt, inArray, isNull, lt } from 'drizzle-orm'
+import { and, eq, gt, inArray, isNull, lt, sql } from 'drizzle-orm'
 import { people, shiftAssignees, shifts, sites, unavailability } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
 import { findFirstStartAtOrAfter, findShiftConflicts, type BlockedSpan, type ConflictCandidate, type NeighbourShift, type ShiftConflict, type WorkRules } from '../core/planning/conflicts'
 import { loadWorkRules } from './work-rules'
 
 const HOUR_MS = 3_600_000
+// the longest a shift may last (MAX_SHIFT_MS in ./shifts, enforced on every write and import)
+const LONGEST_SHIFT_MS = 7 * 24 * HOUR_MS
 
 type Reader = Pick<AppDatabase, 'select'>
 
@@ -35,7 +37,9 @@ function loadNeighbours(db: Reader, personIds: number[], fromMs: number, toMs: n
     .from(shiftAssignees)
     .innerJoin(shifts, eq(shifts.id, shiftAssignees.shiftId))
     .innerJoin(sites, eq(sites.id, shifts.siteId))
-    .where(and(inArray(shiftAssignees.personId, personIds), isNull(shifts.cancelledAt), lt(shifts.startAt, new Date(toMs)), gt(shifts.endAt, new Date(fromMs))))
+    // read by time, not by person: the start is bounded (no shift lasts longer than LONGEST_SHIFT_MS),
+    // and the unary + keeps SQLite off the person index, which would read each person's whole history
+    .where(and(inArray(sql`+${shiftAssignees.personId}`, personIds), isNull(shifts.cancelledAt), lt(shifts.startAt, new Date(toMs)), gt(shifts.startAt, new Date(fromMs - LONGEST_SHIFT_MS)), gt(shifts.endAt, new Date(fromMs))))
     .orderBy(shifts.startAt).all()
     .map(r => ({ shiftId: r.shiftId, personId: r.personId, startMs: r.startAt.getTime(), endMs: r.endAt.getTime(), title: r.title, siteName: r.siteName }))
 }
