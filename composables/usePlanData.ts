@@ -22,7 +22,8 @@ export function usePlanData(sites: Ref<SiteItem[]>) {
     if (displayZone.value !== 'site' && chosenSites.value.some(s => s.timezone === displayZone.value)) return displayZone.value
     return chosenSites.value[0]?.timezone ?? viewerZone.value
   })
-  const today = computed(() => localDateIn(Date.now(), zone.value))
+  const renderedAt = useNowMs()
+  const today = computed(() => localDateIn(renderedAt, zone.value))
   const anchor = computed(() => date.value || today.value)
   const range = computed(() => calendarRange(view.value, anchor.value))
 
@@ -34,13 +35,15 @@ export function usePlanData(sites: Ref<SiteItem[]>) {
   const visibleShifts = computed(() => (shifts.data.value ?? []).filter(s => siteIds.value.includes(s.siteId) && !s.cancelled))
 
   // one day either side: a site's local days need not line up with the display zone's
-  const lightKey = computed(() => `plan-light:${siteIds.value.join(',')}:${range.value.from}:${range.value.to}`)
-  const lights = useAsyncData<SiteLight[]>(lightKey, async () => {
+  // One fixed key, refetched whenever the sites or the range change: with a key that followed them,
+  // switching sites could leave the previous sites' light (and lanes) on the calendar until a reload.
+  const lightKey = computed(() => `${siteIds.value.join(',')}:${range.value.from}:${range.value.to}`)
+  const lights = useAsyncData<SiteLight[]>('plan-light', async () => {
     const query = { from: addDays(range.value.from, -1), to: range.value.to }
     const replies = await Promise.all(chosenSites.value.map(site => $fetch<SiteLightReply>(`/api/sites/${site.id}/light`, { query })
       .then(reply => ({ site, days: reply.days }))))
     return replies
-  }, { server: false, default: () => [], watch: [chosenSites] })
+  }, { server: false, default: () => [], watch: [lightKey, chosenSites] })
 
   return { view, date, siteIds, displayZone, viewerZone, chosenSites, zone, today, anchor, range, shifts, visibleShifts, lights }
 }
