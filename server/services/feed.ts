@@ -130,15 +130,27 @@ function feedStateSuffix(row: Pick<Shift, 'reviewState' | 'cancelledAt'>): strin
 }
 
 // Work of one rendering slice before the feed lets other requests run (renderPersonFeed).
-const FEED_SLICE_MS = 40
+const FEED_SLICE_MS = 25
+const FEED_PAGE_MS = 90 * DAY_MS
 
 // Writes the shift events, yielding after each slice of about FEED_SLICE_MS of work. Cancelled shifts
 // stay in the feed as CANCELLED, so a calendar that already holds them drops them.
 function* addShiftEvents(db: AppDatabase, calendar: ICalCalendar, person: Person, nowMs: number, siteById: Map<number, Site>, homeUrl: string | null, live: Shift[]): Generator<void> {
   // one statement for the shifts, their people and their latest decisions; one light trace per site
-  const feedRows = loadFeedShifts(db, person.id, nowMs - FEED_PAST_MS, nowMs + FEED_FUTURE_MS, { includeCancelled: true })
-  const light = createSiteBandCutter(siteById, feedRows)
+  // read in pages of 90 days of starts, with other requests let in between (one snapshot: the reads
+  // run in one transaction, which better-sqlite3 keeps open across the pages)
+  const fromMs = nowMs - FEED_PAST_MS
+  const toMs = nowMs + FEED_FUTURE_MS
+  const feedRows: ReturnType<typeof loadFeedShifts> = []
   let sliceStart = performance.now()
+  for (let pageMs = fromMs - FEED_PAGE_MS; pageMs < toMs; pageMs += FEED_PAGE_MS) {
+    feedRows.push(...loadFeedShifts(db, person.id, fromMs, toMs, { includeCancelled: true, startFrom: pageMs, startTo: pageMs + FEED_PAGE_MS }))
+    if (performance.now() - sliceStart > FEED_SLICE_MS) {
+      yield
+      sliceStart = performance.now()
+    }
+  }
+  const light = createSiteBandCutter(siteById, feedRows)
   for (const { row, assignees, review } of feedRows) {
     if (row.cancelledAt === null) live.push(row)
     const site = siteById.get(row.siteId)!
@@ -186,15 +198,6 @@ function addSunEvents(calendar: ICalCalendar, site: Site, nowMs: number) {
       })
     })
   }
-}
-
-/**
- * Escapes TEXT for iCalendar (RFC 5545 3.3.11: backslash, semicolon, comma, line breaks) and drops
- * other control characters. ical-generator escapes event fields itself but writes the calendar name
- * (NAME, X-WR-CALNAME) as given, so a line break in a person's name could add lines to the feed.
- */
-export function escapeICalText(value: string): string {
-  return value.replace(/[\\;,]/g, ch => `\\${ch}`).replace(/\r\n|\r|\n/g, '\\n').replace(/\p{Cc}/gu, '')
 }
 
 // The feed in slices: each `yield` is a point where other requests may run.
