@@ -7,6 +7,16 @@ import type { LightRequirement } from './light'
 export const REVIEW_DECISIONS = ['approved', 'rejected', 'changes-requested'] as const
 export type ReviewDecision = typeof REVIEW_DECISIONS[number]
 
+/**
+ * The one rule for `current` wherever a decision is shown (the shift, its history, the feed): the
+ * latest decision on a shift is current while the shift's review state is still that decision. A
+ * change to time, site, requirement or people moves the state (back to pending), so the decision
+ * stops being current; a new title or note does not. An earlier decision is never current.
+ */
+export function isReviewDecisionCurrent(shiftReviewState: string, decision: ReviewDecision, isLatest: boolean): boolean {
+  return isLatest && shiftReviewState === decision
+}
+
 /** Our fixed mitigation keys; 'check-in-interval' is stored with its minutes as 'check-in-interval:30'. */
 export const MITIGATION_KEYS = ['portable-lighting', 'two-person-minimum', 'warmup-breaks', 'check-in-interval'] as const
 export type MitigationKey = typeof MITIGATION_KEYS[number]

@@ -1,8 +1,9 @@
 // What the calendar feed reads, in one statement, and the light bands it needs, traced once per site.
 // Explicit imports only, so unit tests can run it.
-import { and, asc, eq, gt, isNull, lt, sql } from 'drizzle-orm'
+import { and, asc, eq, gt, gte, isNull, lt, sql } from 'drizzle-orm'
 import { people, reviews, shiftAssignees, shifts, type Shift, type Site } from '../db/schema'
 import type { LightPeriodMs } from '../../shared/light'
+import { isReviewDecisionCurrent } from '../../shared/review'
 import type { AppDatabase } from '../utils/db'
 import { computeLightPeriodsInRange } from '../core/light/index'
 import { MAX_SHIFT_MS, type ShiftReviewSummary } from './shifts'
@@ -20,7 +21,7 @@ export interface FeedShiftRow {
  * review decision (correlated subqueries), soonest first. No list of ids is bound, whatever their
  * number. Cancelled shifts come too when asked for (the feed keeps them as CANCELLED events).
  */
-export function loadFeedShifts(db: AppDatabase, personId: number, fromMs: number, toMs: number, options: { includeCancelled?: boolean } = {}): FeedShiftRow[] {
+export function loadFeedShifts(db: AppDatabase, personId: number, fromMs: number, toMs: number, options: { includeCancelled?: boolean, startFrom?: number, startTo?: number } = {}): FeedShiftRow[] {
   const rows = db.select({
     shift: shifts,
     crew: sql<string>`(select json_group_array(json_array(c.id, c.name)) from (select p2.id, p2.name from ${shiftAssignees} a2 join ${people} p2 on p2.id = a2.person_id where a2.shift_id = ${shifts.id} order by p2.id) c)`,
@@ -33,7 +34,10 @@ export function loadFeedShifts(db: AppDatabase, personId: number, fromMs: number
       lt(shifts.startAt, new Date(toMs)),
       // no shift lasts longer than MAX_SHIFT_MS: the start index then reads the window alone
       gt(shifts.startAt, new Date(fromMs - MAX_SHIFT_MS)),
-      gt(shifts.endAt, new Date(fromMs))
+      gt(shifts.endAt, new Date(fromMs)),
+      // one page of starts, [startFrom, startTo), when the caller reads in pages
+      options.startFrom !== undefined ? gte(shifts.startAt, new Date(options.startFrom)) : undefined,
+      options.startTo !== undefined ? lt(shifts.startAt, new Date(options.startTo)) : undefined
     ))
     .orderBy(asc(shifts.startAt)).all()
   return rows.map(({ shift, crew, review }) => {
@@ -47,7 +51,7 @@ export function loadFeedShifts(db: AppDatabase, personId: number, fromMs: number
         note: decided[2],
         reviewerName: decided[4],
         at: new Date(decided[3]).toISOString(),
-        current: shift.reviewState === decided[0]
+        current: isReviewDecisionCurrent(shift.reviewState, decided[0], true)
       }
     }
   })

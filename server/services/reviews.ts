@@ -5,7 +5,8 @@ import { z } from 'zod'
 import { auditLog, people, reviews, shiftAssignees, shifts, sites, type Shift, type Site } from '../db/schema'
 import {
   CHECK_IN_MINUTES, CHECK_IN_PREFIX, MAX_MITIGATION_TEXT, MAX_REVIEW_NOTE, MITIGATION_KEYS, OTHER_MITIGATION_PREFIX,
-  REVIEW_DECISIONS, REVIEW_QUEUE_STATES, describeMitigation, describeReviewReason, type ReviewQueueState, type ReviewReasonDetail, type ReviewShiftSnapshot
+  REVIEW_DECISIONS, REVIEW_QUEUE_STATES, describeMitigation, describeReviewReason, type ReviewQueueState, type ReviewReasonDetail, type ReviewShiftSnapshot,
+  isReviewDecisionCurrent
 } from '../../shared/review'
 import { formatDay, formatTimeRange } from '../../shared/format'
 import { localDateOf } from '../core/time/zone-table'
@@ -25,6 +26,7 @@ import { loadAssignees, loadLatestReviews, loadShiftRowConflicts, toShiftView, t
 import type { ShiftConflict } from '../core/planning/conflicts'
 import { describeWindowWeather, loadSiteForecast, loadSiteObservations, type ObservationRow, type SiteForecastState } from './site-weather'
 import { nowMs as clockNowMs } from '../core/time/clock'
+import { attachWeatherHolds } from './holds'
 
 const HOUR_MS = 3_600_000
 
@@ -251,18 +253,18 @@ export interface ReviewHistoryEntry {
   reviewerName: string
   at: string
   shiftVersion: number
-  /** True while the shift is still the version the decision was made on. */
+  /** The latest decision while the shift's review state is still that decision (isReviewDecisionCurrent). */
   current: boolean
   /** The shift as decided (null for decisions recorded before snapshots were kept). */
   snapshot: ReviewShiftSnapshot | null
 }
 
 /** Every decision on a shift, newest first. */
-export function listShiftReviews(db: Pick<AppDatabase, 'select'>, shift: Pick<Shift, 'id' | 'version'>): ReviewHistoryEntry[] {
+export function listShiftReviews(db: Pick<AppDatabase, 'select'>, shift: Pick<Shift, 'id' | 'reviewState'>): ReviewHistoryEntry[] {
   return db.select({ id: reviews.id, decision: reviews.decision, mitigations: reviews.mitigations, note: reviews.note, reviewerId: reviews.reviewerId, reviewerName: people.name, at: reviews.createdAt, shiftVersion: reviews.shiftVersion, snapshot: reviews.snapshot })
     .from(reviews).innerJoin(people, eq(people.id, reviews.reviewerId))
     .where(eq(reviews.shiftId, shift.id)).orderBy(desc(reviews.id)).all()
-    .map(r => ({ ...r, at: r.at.toISOString(), current: r.shiftVersion === shift.version }))
+    .map((r, i) => ({ ...r, at: r.at.toISOString(), current: isReviewDecisionCurrent(shift.reviewState, r.decision, i === 0) }))
 }
 
 export const ReviewQueueQuerySchema = z.object({
@@ -288,10 +290,13 @@ function shapeShiftRows(db: AppDatabase, rows: Shift[], nowMs: number): ReviewQu
     const to = Math.max(...own.map(r => r.endAt.getTime()))
     weatherBySite.set(siteId, { forecast: loadSiteForecast(db, siteId, nowMs), readings: loadSiteObservations(db, siteId, from, to) })
   }
-  return rows.map((row) => {
+  const items = rows.map((row) => {
     const site = siteById.get(row.siteId)!
     return shapeOneRow(row, site, { assigned: assignees.get(row.id) ?? [], review: latest.get(row.id) ?? null, conflicts: conflicts.get(row.id) ?? [] }, weatherBySite.get(row.siteId)!)
   })
+  // the operator's weather holds over each outing, set on the shift views in place
+  attachWeatherHolds(db, items.map(i => i.shift), nowMs)
+  return items
 }
 
 interface RowExtras { assigned: { id: number, name: string }[], review: ShiftReviewSummary | null, conflicts: ShiftConflict[] }

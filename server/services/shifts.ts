@@ -2,6 +2,7 @@ import { and, desc, eq, gt, inArray, isNull, lt, type SQLWrapper } from 'drizzle
 import { z } from 'zod'
 import { people, reviews, shiftAssignees, shifts, sites, type Shift, type Site } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
+import { isReviewDecisionCurrent } from '../../shared/review'
 import { fieldError } from '../utils/errors'
 import { checkShiftLight, computeOutingWindow } from '../core/light/check'
 import { InstantSchema, LocalDateSchema } from '../utils/validation'
@@ -104,7 +105,7 @@ export function loadLatestReviews(db: Pick<AppDatabase, 'select'>, rows: Pick<Sh
   if (Array.isArray(scope) && scope.length > ID_SLICE) found.sort((a, b) => b.id - a.id)
   for (const r of found) {
     if (map.has(r.shiftId) || !states.has(r.shiftId)) continue
-    map.set(r.shiftId, { decision: r.decision, mitigations: r.mitigations, note: r.note, reviewerName: r.reviewerName, at: r.at.toISOString(), current: states.get(r.shiftId) === r.decision })
+    map.set(r.shiftId, { decision: r.decision, mitigations: r.mitigations, note: r.note, reviewerName: r.reviewerName, at: r.at.toISOString(), current: isReviewDecisionCurrent(states.get(r.shiftId)!, r.decision, true) })
   }
   return map
 }

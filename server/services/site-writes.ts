@@ -61,6 +61,16 @@ function requireSiteRow(tx: Tx, id: number): Site {
   return row
 }
 
+/** Creates a site, with its audit entry; a name another site has already (any case) is a 409. */
+export function createSite(db: AppDatabase, actorId: number, body: typeof sites.$inferInsert): Site {
+  return db.transaction((tx) => {
+    requireFreeSiteName(tx, body.name, 0)
+    const row = tx.insert(sites).values(body).returning().get()
+    recordAudit(tx, actorId, 'site.create', 'site', row.id, { name: row.name })
+    return row
+  })
+}
+
 /** Edits a site; new coordinates or zone re-check its shifts in the same transaction. */
 export function updateSite(db: AppDatabase, actorId: number, id: number, patch: SitePatch): Site {
   const result = db.transaction((tx) => {

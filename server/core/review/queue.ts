@@ -121,9 +121,17 @@ export function buildLightStrip(bands: LightPeriodMs[], requirement: LightRequir
 
 /** Adds up the minutes of each band (rounded to whole minutes per band). */
 export function sumBandMinutes(bands: LightPeriodMs[]): Record<BandKind, number> {
-  const totals = Object.fromEntries(BAND_KINDS.map(k => [k, 0])) as Record<BandKind, number>
-  for (const b of bands) totals[b.kind] += (b.endMs - b.startMs) / MINUTE_MS
-  for (const k of BAND_KINDS) totals[k] = Math.round(totals[k])
+  const exact = Object.fromEntries(BAND_KINDS.map(k => [k, 0])) as Record<BandKind, number>
+  for (const b of bands) exact[b.kind] += (b.endMs - b.startMs) / MINUTE_MS
+  // Round the total, not each band (largest remainder): the bands of a 10:00–14:00 shift add up to
+  // 4 h exactly, never "4 h 1 min" from three bands each rounded up.
+  const totals = Object.fromEntries(BAND_KINDS.map(k => [k, Math.floor(exact[k])])) as Record<BandKind, number>
+  let left = Math.round(BAND_KINDS.reduce((n, k) => n + exact[k], 0)) - BAND_KINDS.reduce((n, k) => n + totals[k], 0)
+  for (const k of [...BAND_KINDS].sort((a, b) => (exact[b] - Math.floor(exact[b])) - (exact[a] - Math.floor(exact[a])))) {
+    if (left <= 0) break
+    totals[k]++
+    left--
+  }
   return totals
 }
 

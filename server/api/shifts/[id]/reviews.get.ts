@@ -6,7 +6,7 @@ import { IdParamsSchema } from '../../../utils/validation'
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'safety', 'coordinator')
   const { id } = readParamsAs(event, IdParamsSchema)
-  const shift = useDB().select({ id: shifts.id, version: shifts.version }).from(shifts).where(eq(shifts.id, id)).get()
+  const shift = useDB().select({ id: shifts.id, reviewState: shifts.reviewState }).from(shifts).where(eq(shifts.id, id)).get()
   if (!shift) throw notFound('Shift')
   return listShiftReviews(useDB(), shift)
 })
