@@ -2,6 +2,7 @@
 // back), the field board's shapes, the operator's weather holds and the wording that goes with them.
 // Pure: no Vue or Nitro imports.
 import { formatLocalTime } from './format'
+import { formatTemperature, formatVisibility, formatWind, type FigureUnits } from './units'
 
 const MINUTE_MS = 60_000
 
@@ -70,3 +71,24 @@ export const FIELD_STATE_WORDS: Record<FieldState, string> = {
   'check-in-missed': 'Check-in missed',
   'back': 'Back'
 }
+
+export type { FigureUnits }
+
+/** A hold figure in the person's units: `45 km/h` or `28 mph`, `−46 °C` or `−51 °F`, `200 m` or `656 ft`. */
+export function formatHoldFigure(cause: 'windKmh' | 'windChillC' | 'visibilityM', value: number, units: FigureUnits = 'metric'): string {
+  if (cause === 'windKmh') return formatWind(value, units)
+  if (cause === 'windChillC') return formatTemperature(value, units)
+  return formatVisibility(value, units)
+}
+
+/** What reached the level, in words: "Wind chill −46 °C (this level: −40 °C or colder)". */
+export function describeHoldCause(hold: { cause: 'windKmh' | 'windChillC' | 'visibilityM', value: number, limit: number }, units: FigureUnits = 'metric'): string {
+  const v = formatHoldFigure(hold.cause, hold.value, units)
+  const l = formatHoldFigure(hold.cause, hold.limit, units)
+  if (hold.cause === 'windKmh') return `Wind ${v} (this level: ${l} or more)`
+  if (hold.cause === 'windChillC') return `Wind chill ${v} (this level: ${l} or colder)`
+  return `Visibility ${v} (this level: ${l} or less)`
+}
+
+/** Said with every weather hold. */
+export const HOLD_DEFERENCE_LINE = 'The level, its figures and its advice are your operator\'s. A forecast is only a forecast: look at the sky, listen to the people on site, and follow your procedures; where a local rule or your supervisor is stricter, that wins.'

@@ -490,11 +490,13 @@ export interface PersonPreferences {
   /** 'site' (each site's own zone) or an IANA zone name. */
   displayZone: string
   feedIncludeSun: boolean
+  /** Cold and wind figures in °C, km/h, m (metric) or °F, mph, ft (imperial). */
+  units: 'metric' | 'imperial'
 }
 
 /** A person's own preferences. */
 export function readPersonPreferences(db: AppDatabase, personId: number): PersonPreferences {
-  const row = db.select({ remindersEnabled: people.remindersEnabled, displayZone: people.displayZone, feedIncludeSun: people.feedIncludeSun })
+  const row = db.select({ remindersEnabled: people.remindersEnabled, displayZone: people.displayZone, feedIncludeSun: people.feedIncludeSun, units: people.units })
     .from(people).where(eq(people.id, personId)).get()
   if (!row) throw new RangeError(`no person ${personId}`)
   return row

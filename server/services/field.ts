@@ -14,6 +14,8 @@ import { formatZonedIso } from '../core/time/zoned'
 import { DEFAULT_FIELD_SETTINGS, FIELD_STATE_WORDS, type FieldParty, type FieldSettings } from '../../shared/field'
 import { formatDay, formatDuration, formatLocalTime } from '../../shared/format'
 import { renderFieldAlertMail } from '../../emails/field-alert'
+import type { ShiftReply } from '../../shared/types/shift'
+import { attachWeatherHolds } from './holds'
 
 const MINUTE_MS = 60_000
 /** Parties back within this long stay on the board (DESIGN.md: 12 h). */
@@ -127,12 +129,16 @@ export function findShiftFieldStatus(db: AppDatabase, actor: Actor, shiftId: num
   const travelMs = shift.travelMinutes * MINUTE_MS
   // the crew's leave button shows from six hours before the planned departure until the planned return
   const inWindow = nowMs >= shift.startAt.getTime() - travelMs - 6 * 3_600_000 && nowMs < shift.endAt.getTime() + travelMs
+  const start = formatZonedIso(shift.startAt.getTime(), site.timezone)
+  const end = formatZonedIso(shift.endAt.getTime(), site.timezone)
+  const [held] = attachWeatherHolds(db, [{ siteId: site.id, start, end, timezone: site.timezone, travelMinutes: shift.travelMinutes, weatherHold: null as ShiftReply['weatherHold'] }], nowMs)
   return {
     shiftId,
     timezone: site.timezone,
-    start: formatZonedIso(shift.startAt.getTime(), site.timezone),
-    end: formatZonedIso(shift.endAt.getTime(), site.timezone),
+    start,
+    end,
     travelMinutes: shift.travelMinutes,
+    weatherHold: held!.weatherHold ?? null,
     alone: count === 1,
     soloCheckInMinutes: settingsNow.soloCheckInMinutes,
     cancelled: shift.cancelledAt !== null,

@@ -2,13 +2,15 @@
 // from the forecast hours of its outing (readings from the field preferred where newer).
 import { eq } from 'drizzle-orm'
 import { z } from 'zod'
-import { settings } from '../db/schema'
+import { settings, type Shift, type Site } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
 import { recordAudit } from './audit'
 import { loadSiteHourlyWeather } from './site-weather'
 import { evaluateWeatherHold, type HoldLevel } from '../core/cold/holds'
 import { formatZonedIso } from '../core/time/zoned'
 import type { ShiftReply } from '../../shared/types/shift'
+import { describeHoldCause, describeOuting, HOLD_DEFERENCE_LINE } from '../../shared/field'
+import type { FigureUnits } from '../../shared/units'
 
 export const HOLDS_SETTING_KEY = 'weather-holds'
 export const MAX_HOLD_LEVELS = 8
@@ -77,4 +79,36 @@ export function attachWeatherHolds<T extends Pick<ShiftReply, 'siteId' | 'start'
       : null
   }
   return views
+}
+
+/** What the evening-before reminder adds per shift: when to leave and be back, and its weather hold. */
+export interface FieldReminderNote {
+  outing: string | null
+  caution: { title: string, figure: string | null, text: string, tone: 'caution' | 'stop' } | null
+}
+
+/** The reminder's field lines for a person's shifts, in their units. */
+export function buildFieldReminderNotes(db: Reader, rows: Shift[], siteById: Map<number, Pick<Site, 'id' | 'timezone'>>, units: FigureUnits, nowMs: number): Map<number, FieldReminderNote> {
+  const views = rows.map((row) => {
+    const site = siteById.get(row.siteId)!
+    return { id: row.id, siteId: row.siteId, timezone: site.timezone, start: formatZonedIso(row.startAt.getTime(), site.timezone), end: formatZonedIso(row.endAt.getTime(), site.timezone), travelMinutes: row.travelMinutes, weatherHold: null as ShiftReply['weatherHold'] }
+  })
+  attachWeatherHolds(db, views, nowMs)
+  return new Map(views.map(v => [v.id, {
+    outing: v.travelMinutes ? describeOuting(v.start, v.end, v.travelMinutes, v.timezone) : null,
+    caution: v.weatherHold
+      ? { title: `Weather hold: ${v.weatherHold.level}`, figure: describeHoldCause(v.weatherHold, units), text: `Your operator's advice: ${v.weatherHold.advice} ${HOLD_DEFERENCE_LINE}`, tone: 'caution' as const }
+      : null
+  }]))
+}
+
+/** Adds the field lines to one site's block of a reminder (its shifts in the view's order). */
+export function addFieldReminderNotes<S extends { shifts: { span: string, cautions: FieldReminderNote['caution'][] }[] }>(site: S, shiftIds: number[], notes: Map<number, FieldReminderNote>): S {
+  site.shifts.forEach((shift, i) => {
+    const note = notes.get(shiftIds[i]!)
+    if (!note) return
+    if (note.outing) shift.span = `${shift.span} · ${note.outing}`
+    if (note.caution) shift.cautions.push(note.caution)
+  })
+  return site
 }

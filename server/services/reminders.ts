@@ -7,6 +7,7 @@ import { and, eq, gt, gte, inArray, isNull, like, lt, ne } from 'drizzle-orm'
 import { messages, people, shiftAssignees, shifts, sites, unavailability, type Person, type Shift, type Site } from '../db/schema'
 import { addDays, formatDate } from '../../shared/format'
 import { renderReminderMail, type ReminderSiteProps } from '../../emails/reminder'
+import { addFieldReminderNotes, buildFieldReminderNotes } from './holds'
 import type { AppDatabase } from '../utils/db'
 import { buildCrewSiteView, type CrewSiteView } from './crew-day'
 import { deliverOutboxMessage, enqueueOutboxMessage, hasOutboxMessage, type DeliveryOutcome } from './outbox'
@@ -99,12 +100,14 @@ export function composeReminderForPlan(db: AppDatabase, plan: ReminderPlan, opti
   const views = siteIds.map(id => buildCrewSiteView(db, {
     site: byId.get(id)!, dates: [{ date: plan.date, which: 'tomorrow' }], person: plan.person, shifts: plan.shifts, match: 'starts', nowMs: options.nowMs
   }))
+  const fieldNotes = buildFieldReminderNotes(db, plan.shifts, byId, plan.person.units ?? 'metric', options.nowMs)
   const earlier = db.select({ id: messages.id }).from(messages)
     .where(and(eq(messages.kind, REMINDER_KIND), like(messages.dedupeKey, `${REMINDER_KIND}:${plan.person.id}:${plan.date}:%`), ne(messages.dedupeKey, plan.dedupeKey))).get()
   return renderReminderMail({
     personName: plan.person.name,
     dateLabel: formatDate(plan.date),
-    sites: views.map(toReminderSite),
+    // when to leave and be back, and the operator's weather hold, per shift
+    sites: views.map(v => addFieldReminderNotes(toReminderSite(v), v.days[0]!.shifts.map(s => s.id), fieldNotes)),
     updated: Boolean(earlier),
     homeUrl: options.baseUrl ? `${options.baseUrl}/` : null,
     settingsUrl: options.baseUrl ? `${options.baseUrl}/settings` : null

@@ -17,6 +17,7 @@ import { fetchHourlyForecast, isForecastStale, summariseForecastForWindow, type 
 import { summariseColdForWindow, type WeatherSample, type WindowWeather } from '../core/review/queue'
 import { InstantSchema } from '../utils/validation'
 import { resolveLocalOrInstant } from '../core/time/zoned'
+import { nowDate } from '../core/time/clock'
 import { realDateTime } from '../../shared/schemas/calendar'
 
 const HOUR_MS = 3_600_000
@@ -29,8 +30,10 @@ export const SITE_FORECAST_STALE_HOURS = 6
 const FORECAST_KEEP_MS = 7 * DAY_MS
 // Readings this long before a shift still describe its start (a reading is a moment, not a forecast).
 const OBSERVATION_LEAD_MS = 3 * HOUR_MS
-// A reading may be entered a little ahead of the server clock (clock drift), never for the future.
-const OBSERVATION_FUTURE_SLACK_MS = 15 * 60_000
+// A reading may be for the hours ahead too: a forecast relayed from the field by radio or satellite
+// message. It is kept for at most this far ahead (the longest a field party plans a trip on).
+export const OBSERVATION_AHEAD_MAX_HOURS = 72
+const OBSERVATION_FUTURE_SLACK_MS = OBSERVATION_AHEAD_MAX_HOURS * HOUR_MS
 export const MAX_OBSERVATION_ROWS = 5000
 
 export interface SiteForecastState {
@@ -108,7 +111,10 @@ export interface ObservationRow {
   at: string
   temperatureC: number
   windKmh: number
+  visibilityM?: number | null
   source: 'manual' | 'csv'
+  /** When the reading was entered: one entered after the forecast was fetched wins over it. */
+  enteredAt?: string
 }
 
 /** Site readings with `at` in [fromMs, toMs], oldest first. */
@@ -116,7 +122,7 @@ export function loadSiteObservations(db: Pick<AppDatabase, 'select'>, siteId: nu
   return db.select().from(observations)
     .where(and(eq(observations.siteId, siteId), gte(observations.at, new Date(fromMs)), lte(observations.at, new Date(toMs))))
     .orderBy(observations.at, observations.id).all()
-    .map(r => ({ id: r.id, at: r.at.toISOString(), temperatureC: r.temperatureC, windKmh: r.windKmh, source: r.source }))
+    .map(r => ({ id: r.id, at: r.at.toISOString(), temperatureC: r.temperatureC, windKmh: r.windKmh, visibilityM: r.visibilityM, source: r.source, enteredAt: r.createdAt.toISOString() }))
 }
 
 // --- entering readings ----------------------------------------------------------------------
@@ -134,12 +140,14 @@ export const ObservationInputSchema = z.object({
   at: ReadingTimeSchema,
   temperature: readingNumber('temperature'),
   wind: readingNumber('wind'),
+  // metres (metric) or feet (imperial); optional: not every party can judge it
+  visibility: z.number({ error: 'visibility must be a number' }).min(0, 'visibility must be 0 or more').max(330_000, 'visibility is out of range').nullable().optional(),
   units: z.enum(COLD_UNITS, { error: 'units must be metric or imperial' }).default('metric')
 })
 export type ObservationInput = z.infer<typeof ObservationInputSchema>
 
 /** Checks a reading's range and time against the site; returns the metric row or the field and message at fault. */
-export function convertObservationInput(input: ObservationInput, timezone: string, nowMs: number): { ok: true, row: { atMs: number, temperatureC: number, windKmh: number } } | { ok: false, field: string, message: string } {
+export function convertObservationInput(input: ObservationInput, timezone: string, nowMs: number): { ok: true, row: { atMs: number, temperatureC: number, windKmh: number, visibilityM: number | null } } | { ok: false, field: string, message: string } {
   const limits = COLD_INPUT_LIMITS[input.units as ColdUnits]
   const unit = input.units === 'imperial' ? { t: '°F', w: 'mph' } : { t: '°C', w: 'km/h' }
   if (input.temperature < limits.minTemperature || input.temperature > limits.maxTemperature) {
@@ -148,16 +156,17 @@ export function convertObservationInput(input: ObservationInput, timezone: strin
   if (input.wind < 0 || input.wind > limits.maxWind) return { ok: false, field: 'wind', message: `must be between 0 and ${limits.maxWind} ${unit.w}` }
   const atMs = resolveLocalOrInstant(input.at.replace(' ', 'T'), timezone).ms
   if (!Number.isFinite(atMs)) return { ok: false, field: 'at', message: 'not a valid time' }
-  if (atMs > nowMs + OBSERVATION_FUTURE_SLACK_MS) return { ok: false, field: 'at', message: 'a reading cannot be in the future' }
+  if (atMs > nowMs + OBSERVATION_FUTURE_SLACK_MS) return { ok: false, field: 'at', message: `a reading may be at most ${OBSERVATION_AHEAD_MAX_HOURS} hours ahead` }
   const imperial = input.units === 'imperial'
-  return { ok: true, row: { atMs, temperatureC: imperial ? convertFahrenheitToCelsius(input.temperature) : input.temperature, windKmh: imperial ? convertMphToKmh(input.wind) : input.wind } }
+  const visibilityM = input.visibility == null ? null : imperial ? input.visibility * 0.3048 : input.visibility
+  return { ok: true, row: { atMs, temperatureC: imperial ? convertFahrenheitToCelsius(input.temperature) : input.temperature, windKmh: imperial ? convertMphToKmh(input.wind) : input.wind, visibilityM } }
 }
 
 /** Stores readings for a site with one audit entry, all in one transaction; returns the stored rows. */
-export function insertSiteObservations(db: AppDatabase, actorId: number, siteId: number, rows: { atMs: number, temperatureC: number, windKmh: number }[], source: 'manual' | 'csv'): ObservationRow[] {
+export function insertSiteObservations(db: AppDatabase, actorId: number, siteId: number, rows: { atMs: number, temperatureC: number, windKmh: number, visibilityM?: number | null }[], source: 'manual' | 'csv'): ObservationRow[] {
   return db.transaction((tx) => {
     const stored = rows.length
-      ? tx.insert(observations).values(rows.map(r => ({ siteId, at: new Date(r.atMs), temperatureC: round1(r.temperatureC), windKmh: round1(r.windKmh), source, createdBy: actorId }))).returning().all()
+      ? tx.insert(observations).values(rows.map(r => ({ siteId, at: new Date(r.atMs), temperatureC: round1(r.temperatureC), windKmh: round1(r.windKmh), visibilityM: r.visibilityM == null ? null : Math.round(r.visibilityM), source, createdBy: actorId, createdAt: nowDate() }))).returning().all()
       : []
     recordAudit(tx, actorId, source === 'csv' ? 'observation.import' : 'observation.create', 'site', siteId, { count: stored.length, ids: stored.map(r => r.id).slice(0, 50) })
     return stored.map(r => ({ id: r.id, at: r.at.toISOString(), temperatureC: r.temperatureC, windKmh: r.windKmh, source: r.source }))
@@ -192,7 +201,8 @@ export function describeWindowWeather(
   const { startMs, endMs, bands, timezone } = window
   const inWindow = readings.filter(r => Date.parse(r.at) >= startMs - OBSERVATION_LEAD_MS && Date.parse(r.at) <= endMs)
   const observationsInfo = { count: inWindow.length, first: inWindow[0]?.at ?? null, last: inWindow[inWindow.length - 1]?.at ?? null }
-  const samples = forecast.latest ? forecastSamples(forecast.latest.hours, startMs, endMs) : null
+  const forecastOnly = forecast.latest ? forecastSamples(forecast.latest.hours, startMs, endMs) : null
+  const samples = forecastOnly && forecast.latest ? preferNewerReadings(forecastOnly, inWindow, Date.parse(forecast.latest.fetchedAt)) : forecastOnly
   const forecastInfo = {
     state: forecast.latest && !samples ? 'not-covered' as const : forecast.state,
     fetchedAt: forecast.latest?.fetchedAt ?? null,
@@ -217,6 +227,18 @@ export function describeWindowWeather(
     return { basis: 'observations', label: label + failedNote, forecast: forecastInfo, observations: observationsInfo, figures: summariseColdForWindow(readingSamples, bands, timezone) }
   }
   return { basis: 'none', label: gap + failedNote, forecast: forecastInfo, observations: observationsInfo, figures: null }
+}
+
+// A reading entered after the forecast was fetched is newer word for the hour it falls in: it takes
+// that hour's place (a measured −28 °C on site beats an older forecast of −20 °C).
+function preferNewerReadings(samples: WeatherSample[], readings: ObservationRow[], fetchedMs: number): WeatherSample[] {
+  const newer = readings.filter(r => r.enteredAt !== undefined && Date.parse(r.enteredAt) > fetchedMs)
+  if (!newer.length) return samples
+  const byHour = new Map(newer.map(r => [Math.floor(Date.parse(r.at) / HOUR_MS), r]))
+  return samples.map((s) => {
+    const r = byHour.get(Math.floor(s.atMs / HOUR_MS))
+    return r ? { atMs: s.atMs, temperatureC: r.temperatureC, windKmh: r.windKmh, gustKmh: null } : s
+  })
 }
 
 // --- CSV of readings ----------------------------------------------------------------------------

@@ -1,0 +1,38 @@
+// Cold and wind figures in a person's units (metric: °C, km/h, m; imperial: °F, mph, ft). Stored and
+// computed figures are metric; these only convert for display. Pure: no imports.
+
+export type FigureUnits = 'metric' | 'imperial'
+
+const KMH_PER_MPH = 1.609344
+const M_PER_FT = 0.3048
+
+/** °C → °F. */
+export function toFahrenheit(celsius: number): number {
+  return celsius * 9 / 5 + 32
+}
+
+/** km/h → mph. */
+export function toMph(kmh: number): number {
+  return kmh / KMH_PER_MPH
+}
+
+// a true minus sign, as elsewhere in the app
+const signed = (v: number) => String(Math.round(v)).replace('-', '−')
+
+/** `−28 °C` or `−18 °F`; an em dash for no value. */
+export function formatTemperature(celsius: number | null, units: FigureUnits): string {
+  if (celsius === null) return '—'
+  return units === 'imperial' ? `${signed(toFahrenheit(celsius))} °F` : `${signed(celsius)} °C`
+}
+
+/** `40 km/h` or `25 mph`; an em dash for no value. */
+export function formatWind(kmh: number | null, units: FigureUnits): string {
+  if (kmh === null) return '—'
+  return units === 'imperial' ? `${Math.round(toMph(kmh))} mph` : `${Math.round(kmh)} km/h`
+}
+
+/** `200 m` or `656 ft`; an em dash for no value. */
+export function formatVisibility(metres: number | null, units: FigureUnits): string {
+  if (metres === null) return '—'
+  return units === 'imperial' ? `${Math.round(metres / M_PER_FT)} ft` : `${Math.round(metres)} m`
+}
