@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
 import { keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
-import { createDarkShift, createDarkSite, findPeopleIds, startSafetyWorld, type SafetyWorld } from './safety-fixtures'
+import { createDarkShift, createDarkSite, findPeopleIds, startSafetyWorld, type SafetyWorld } from '../support/safety-fixtures'
 
 let world: SafetyWorld
 let browser: Browser

@@ -2,7 +2,7 @@
 // current (the shift and its history agree, through a title edit and after a change of time).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { TEST_CLOCK } from '../support/clock'
-import { createDarkShift, createDarkSite, findPeopleIds, startSafetyWorld, type SafetyWorld } from './safety-fixtures'
+import { createDarkShift, createDarkSite, findPeopleIds, startSafetyWorld, type SafetyWorld } from '../support/safety-fixtures'
 
 let world: SafetyWorld
 beforeAll(async () => {

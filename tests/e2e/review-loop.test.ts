@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { startMailSink } from '../../scripts/mail-sink.mjs'
 import { signedInClient, startAppServer, type ApiClient, type AppServer } from '../support/app-server'
 import { TEST_CLOCK, utcDateOf } from '../support/clock'
-import { referenceAltitude } from '../unit/reference/sun-reference'
+import { referenceAltitude } from '../support/sun-reference'
 
 interface SinkMessage { to: string[], subject: string, text: string, html: string }
 let sink: { url: string, messages: SinkMessage[], close: () => Promise<void> }

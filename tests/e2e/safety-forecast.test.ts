@@ -1,5 +1,5 @@
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
-import { createDarkShift, createDarkSite, dateFromToday, findPeopleIds, queryDatabase, startSafetyWorld, worldNowMs, type SafetyWorld } from './safety-fixtures'
+import { createDarkShift, createDarkSite, dateFromToday, findPeopleIds, queryDatabase, startSafetyWorld, worldNowMs, type SafetyWorld } from '../support/safety-fixtures'
 
 // Forecasts come from the local fake forecast server (scripts/fake-forecast.mjs) in its modes:
 // normal, slow (never answers: the client times out after FORECAST_TIMEOUT_MS), garbage (not JSON),

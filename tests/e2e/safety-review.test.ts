@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { TEST_CLOCK } from '../support/clock'
-import { createDarkShift, createDarkSite, dateFromToday, findPeopleIds, queryDatabase, startSafetyWorld, type SafetyWorld } from './safety-fixtures'
+import { createDarkShift, createDarkSite, dateFromToday, findPeopleIds, queryDatabase, startSafetyWorld, type SafetyWorld } from '../support/safety-fixtures'
 
 let world: SafetyWorld
 let siteId: number

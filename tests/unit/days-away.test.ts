@@ -2,24 +2,18 @@
 // evening-before reminder for work on a day away. A fresh database with invented people and sites.
 // Zone offsets are from the tz database as Node's Intl reads it: New Zealand keeps daylight time
 // (UTC+13) in January, Svalbard (Arctic/Longyearbyen) keeps UTC+1 in winter.
-import { mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
 import { afterEach, beforeEach, describe, expect, it } from 'vitest'
-import { applyMigrations, openDatabase, type AppDatabase } from '../../server/utils/db'
+import type { AppDatabase } from '../../server/utils/db'
+import { createTestDatabase, removeTestDatabases } from '../support/test-database'
 import { people, shiftAssignees, shifts, sites } from '../../server/db/schema'
 import { createBlockedSpan, listBlockedSpans } from '../../server/services/availability'
 import { planRemindersForDate } from '../../server/services/reminders'
 
-const MIGRATIONS = resolve(import.meta.dirname, '../../drizzle')
-let dir: string
 let db: AppDatabase
 let ids: { coord: number, own: number, home: number, plain: number, site: number }
 
 beforeEach(() => {
-  dir = mkdtempSync(join(tmpdir(), 'gloamline-away-'))
-  db = openDatabase(join(dir, 'test.sqlite'))
-  applyMigrations(db, MIGRATIONS)
+  db = createTestDatabase('gloamline-away-')
   const [site] = db.insert(sites).values([{ name: 'Invented Ice Hut', latitude: 78.22, longitude: 15.65, timezone: 'Arctic/Longyearbyen' }]).returning().all()
   const [coord, own, home, plain] = db.insert(people).values([
     { name: 'Test Coordinator', email: 'coord@away.example.test', role: 'coordinator' },
@@ -31,7 +25,7 @@ beforeEach(() => {
 })
 afterEach(() => {
   db.$client.close()
-  rmSync(dir, { recursive: true, force: true })
+  removeTestDatabases()
 })
 
 describe('whole days away', () => {

@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest'
 import { checkShiftLight } from '../../server/core/light/check'
 import { BANDS_MEETING_REQUIREMENT, type LightRequirement } from '../../shared/light'
-import { REFERENCE_THRESHOLDS, ReferenceTimeline, referenceAltitude, referenceMinutesOutside, sampleReferenceMinutesOutside } from './reference/sun-reference'
+import { REFERENCE_THRESHOLDS, ReferenceTimeline, referenceAltitude, referenceMinutesOutside, sampleReferenceMinutesOutside } from '../support/sun-reference'
 
 const HOUR_MS = 3_600_000
 

@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest'
 import { computeLightDaysMs } from '../../server/core/light/index'
 import { BAND_THRESHOLDS_ASCENDING_DEG, RISING_EVENT_BY_THRESHOLD, SETTING_EVENT_BY_THRESHOLD, type LightDayMs, type SunEventType } from '../../shared/light'
-import { REFERENCE_THRESHOLDS, ReferenceTimeline, referenceAltitude, referenceTurningAltitudes } from './reference/sun-reference'
+import { REFERENCE_THRESHOLDS, ReferenceTimeline, referenceAltitude, referenceTurningAltitudes } from '../support/sun-reference'
 
 const DAY_MS = 86_400_000
 const EDGE_SLIVER_MS = 2 * 60_000

@@ -16,7 +16,7 @@ import {
   solveRootBrent,
   solveRootNearGuess
 } from '../../server/core/sun/position'
-import { referenceAltitude, referenceAzimuth } from './reference/sun-reference'
+import { referenceAltitude, referenceAzimuth } from '../support/sun-reference'
 
 describe('suncalc refraction, undone', () => {
   it('adds a constant ~0.484° below the horizon, as its clamped Meeus 16.4 model implies', () => {

@@ -1,34 +1,26 @@
 // Who gets a reminder for a date, when it is due, and that queuing twice creates nothing new; on a
 // fresh database seeded with the demo scenario (invented data, used here only as a fixture). The
 // expected recipients are worked out with a plain SQL query, independently of the planner.
-import { mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
 import { eq, sql } from 'drizzle-orm'
 import { afterEach, describe, expect, it } from 'vitest'
-import { applyMigrations, openDatabase } from '../../server/utils/db'
+import { createTestDatabase, removeTestDatabases } from '../support/test-database'
 import { seedDemoScenario } from '../../server/db/seed'
 import { messages, people, shiftAssignees, shifts, sites } from '../../server/db/schema'
 import { composeReminderKey, findDueReminderTargets, planRemindersForDate, queueRemindersForDate } from '../../server/services/reminders'
 import { localMidnightMs } from '../../server/core/time/zoned'
 import { addDays } from '../../shared/format'
 
-const MIGRATIONS = resolve(import.meta.dirname, '../../drizzle')
 const NOW = Date.parse('2027-01-12T12:00:00Z')
 const DATE = '2027-01-13'
-const dirs: string[] = []
 
 function seededDatabase() {
-  const dir = mkdtempSync(join(tmpdir(), 'gloamline-reminders-'))
-  dirs.push(dir)
-  const db = openDatabase(join(dir, 'test.sqlite'))
-  applyMigrations(db, MIGRATIONS)
+  const db = createTestDatabase('gloamline-reminders-')
   seedDemoScenario(db, 'not-a-real-hash', NOW)
   return db
 }
 
 afterEach(() => {
-  for (const dir of dirs.splice(0)) rmSync(dir, { recursive: true, force: true })
+  removeTestDatabases()
 })
 
 // People with a shift starting on the local date at its site, by SQL over the tables (each site's

@@ -7,7 +7,7 @@ import { computeReviewReasons, countMinutesBelowCivil, type ReviewReasonInput } 
 import { summariseColdForWindow } from '../../server/core/review/queue'
 import { computeLightPeriodsInRange } from '../../server/core/light/index'
 import { describeReviewReason } from '../../shared/review'
-import { referenceAltitude } from './reference/sun-reference'
+import { referenceAltitude } from '../support/sun-reference'
 
 const MIN = 60_000
 const HOUR = 3_600_000

@@ -1,9 +1,6 @@
-import { mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
 import { eq } from 'drizzle-orm'
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
-import { applyMigrations, openDatabase } from '../../server/utils/db'
+import { createTestDatabase, removeTestDatabases } from '../support/test-database'
 import { auditLog, forecasts, observations, people, sites } from '../../server/db/schema'
 import {
   convertObservationInput,
@@ -18,11 +15,9 @@ import {
 import { startFakeForecastServer } from '../../scripts/fake-forecast.mjs'
 
 // Every fetch here goes to the local fake forecast server on 127.0.0.1: no test reaches the network.
-const MIGRATIONS = resolve(import.meta.dirname, '../../drizzle')
 const HOUR = 3_600_000
 const NOW = Date.parse('2026-12-01T10:30:00Z')
 const ZONE = 'Arctic/Longyearbyen'
-const dirs: string[] = []
 let fake: Awaited<ReturnType<typeof startFakeForecastServer>>
 
 beforeAll(async () => {
@@ -33,14 +28,11 @@ afterAll(async () => {
 })
 afterEach(() => {
   fake.setMode('normal')
-  for (const dir of dirs.splice(0)) rmSync(dir, { recursive: true, force: true })
+  removeTestDatabases()
 })
 
 function freshSite() {
-  const dir = mkdtempSync(join(tmpdir(), 'gloamline-weather-'))
-  dirs.push(dir)
-  const db = openDatabase(join(dir, 'test.sqlite'))
-  applyMigrations(db, MIGRATIONS)
+  const db = createTestDatabase('gloamline-weather-')
   // an invented site at real coordinates (demo-style data, not a reference)
   const site = db.insert(sites).values({ name: 'Invented camp', latitude: 78.22, longitude: 15.63, timezone: ZONE }).returning().get()
   const person = db.insert(people).values({ name: 'Invented Reviewer', email: 'reviewer@example.test', role: 'safety' }).returning().get()

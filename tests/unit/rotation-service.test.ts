@@ -13,7 +13,7 @@ import { ShiftBodySchema } from '../../shared/schemas/shift'
 import { copySiteWeek } from '../../server/services/week-copy'
 import { BANDS_MEETING_REQUIREMENT } from '../../shared/light'
 import { createTestDatabase, removeTestDatabases } from '../support/test-database'
-import { ReferenceTimeline, REFERENCE_THRESHOLDS, referenceAltitude, referenceMinutesOutside } from './reference/sun-reference'
+import { ReferenceTimeline, REFERENCE_THRESHOLDS, referenceAltitude, referenceMinutesOutside } from '../support/sun-reference'
 
 const HOUR_MS = 3_600_000
 // an invented site at 76.4°N on Svalbard's clock

@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest'
 import { computeRunup, findNextTransition, summarizeRunup } from '../../server/core/light/runup'
 import type { LightDayMs } from '../../shared/light'
-import { daysApart, nextDate, referenceDays, type ReferenceDay } from './support/outlook-reference'
+import { daysApart, nextDate, referenceDays, type ReferenceDay } from '../support/outlook-reference'
 
 // Reference: astronomy-engine (npm), geometric altitude of the sun's centre sampled every 10 minutes
-// over each local day (tests/unit/support/outlook-reference.ts). Sunrise means the centre rising
+// over each local day (tests/support/outlook-reference.ts). Sunrise means the centre rising
 // through −0.833°, civil light means −6° or higher (USNO conventions, DESIGN.md). The issue asks for
 // the run-up dates within a day of the reference.
 

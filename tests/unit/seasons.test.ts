@@ -5,7 +5,7 @@ import { describe, expect, it } from 'vitest'
 import { computeLightDaysMs } from '../../server/core/light/index'
 import { shiftLocalDate } from '../../server/core/time/zone-table'
 import { computeSeasonInstants, computeSeasons, findNextTransitions } from '../../server/core/light/seasons'
-import { referenceAzimuth, referenceDayExtremesByHourAngle } from './reference/sun-reference'
+import { referenceAzimuth, referenceDayExtremesByHourAngle } from '../support/sun-reference'
 
 const MINUTE_MS = 60_000
 

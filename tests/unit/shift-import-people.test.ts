@@ -1,15 +1,11 @@
-import { mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
 import { eq, sql } from 'drizzle-orm'
 import { afterEach, beforeEach, describe, expect, it } from 'vitest'
-import { applyMigrations, openDatabase, type AppDatabase } from '../../server/utils/db'
+import type { AppDatabase } from '../../server/utils/db'
+import { createTestDatabase, removeTestDatabases } from '../support/test-database'
 import { auditLog, crewMembers, crews, people } from '../../server/db/schema'
 import { buildPeopleImportTemplate, importPeopleFromCsv, previewPeopleImport } from '../../server/services/people-import'
 
 // People and crews import against a fresh SQLite file with the migrations applied (invented people).
-const MIGRATIONS = resolve(import.meta.dirname, '../../drizzle')
-let dir: string
 let db: AppDatabase
 let actorId: number
 let rimeId: number
@@ -20,16 +16,14 @@ function counts() {
 }
 
 beforeEach(() => {
-  dir = mkdtempSync(join(tmpdir(), 'gloamline-people-import-'))
-  db = openDatabase(join(dir, 'test.sqlite'))
-  applyMigrations(db, MIGRATIONS)
+  db = createTestDatabase('gloamline-people-import-')
   actorId = db.insert(people).values({ name: 'Test Coordinator', email: 'coord@import.gloamline.test', role: 'coordinator' }).returning().get().id
   db.insert(people).values({ name: 'Liv Test', email: 'liv@import.gloamline.test', role: 'crew' }).run()
   rimeId = db.insert(crews).values({ name: 'Rime crew' }).returning().get().id
 })
 afterEach(() => {
   db.$client.close()
-  rmSync(dir, { recursive: true, force: true })
+  removeTestDatabases()
 })
 
 describe('people import', () => {

@@ -1,9 +1,7 @@
-import { mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
 import { eq, sql } from 'drizzle-orm'
 import { afterEach, beforeEach, describe, expect, it } from 'vitest'
-import { applyMigrations, openDatabase, type AppDatabase } from '../../server/utils/db'
+import type { AppDatabase } from '../../server/utils/db'
+import { createTestDatabase, removeTestDatabases } from '../support/test-database'
 import { auditLog, people, shiftAssignees, shifts, sites } from '../../server/db/schema'
 import Papa from 'papaparse'
 import { buildShiftImportTemplate, importShiftsFromCsv, previewShiftImport, suggestSiteName } from '../../server/services/shift-import'
@@ -16,9 +14,7 @@ import { MAX_IMPORT_ROWS } from '../../server/core/planning/csv'
 // from the noon altitude h = 90° − |φ − δ| (standard spherical astronomy) with the sun's declination
 // δ ≈ −23.2° in mid-December (Astronomical Almanac, from memory): at 78.22° N the sun stays below
 // −11° all day, so every minute of a civil or daylight shift is below its requirement.
-const MIGRATIONS = resolve(import.meta.dirname, '../../drizzle')
 const HEADER = 'site,title,start,end,light,assignees,notes'
-let dir: string
 let db: AppDatabase
 let actorId: number
 let ids: { camp: number, yard: number, quarry: number, liv: number, kalle: number }
@@ -48,14 +44,12 @@ function seedBasics() {
 }
 
 beforeEach(() => {
-  dir = mkdtempSync(join(tmpdir(), 'gloamline-import-'))
-  db = openDatabase(join(dir, 'test.sqlite'))
-  applyMigrations(db, MIGRATIONS)
+  db = createTestDatabase('gloamline-import-')
   seedBasics()
 })
 afterEach(() => {
   db.$client.close()
-  rmSync(dir, { recursive: true, force: true })
+  removeTestDatabases()
 })
 
 const VALID = csv(

@@ -2,11 +2,11 @@ import { describe, expect, it } from 'vitest'
 import { computeLightDaysMs } from '../../server/core/light/index'
 import { findShiftConflicts, type ConflictContext, type NeighbourShift } from '../../server/core/planning/conflicts'
 import { findSlots, listValidSlotStarts, type SlotSearchInput } from '../../server/core/planning/slot-finder'
-import { nextDate, referenceMidnight, referenceMinAltitude } from './support/outlook-reference'
+import { nextDate, referenceMidnight, referenceMinAltitude } from '../support/outlook-reference'
 
 // References:
 // - Light: astronomy-engine (npm), the geometric altitude of the sun's centre sampled every minute
-//   over a slot (tests/unit/support/outlook-reference.ts); a slot in daylight keeps it at or above
+//   over a slot (tests/support/outlook-reference.ts); a slot in daylight keeps it at or above
 //   −0.833°, in civil light at or above −6° (USNO conventions, DESIGN.md). The light engine's own
 //   altitudes were measured within 0.017° of astronomy-engine (REFERENCES.md): that is the tolerance.
 // - Work rules: EU Working Time Directive 2003/88/EC art. 3 (11 h daily rest) and a 12 h longest

@@ -1,10 +1,9 @@
-import { resolve } from 'node:path'
 import { Body, Observer, SearchAltitude } from 'astronomy-engine'
-import { describe, expect, it } from 'vitest'
-import { applyMigrations, openDatabase } from '../../server/utils/db'
+import { afterEach, describe, expect, it } from 'vitest'
+import { createTestDatabase, removeTestDatabases } from '../support/test-database'
 import { crewMembers, crews, people, shiftAssignees, shifts, sites, unavailability } from '../../server/db/schema'
 import { searchSlots, SlotSearchBodySchema } from '../../server/services/slot-search'
-import { referenceMidnight } from './support/outlook-reference'
+import { referenceMidnight } from '../support/outlook-reference'
 
 // The slot search as the route runs it, on a fresh SQLite database with invented people and sites.
 // Reference for civil dawn: astronomy-engine SearchAltitude, the sun's centre rising through −6°
@@ -14,9 +13,10 @@ const RAVNVIK = { name: 'Test Yard 69N', latitude: 69.6496, longitude: 18.956, t
 const PAST = Date.parse('2020-01-01T00:00:00Z')
 const QUARTER = 15 * 60_000
 
+afterEach(() => removeTestDatabases())
+
 function freshDatabase() {
-  const db = openDatabase(':memory:')
-  applyMigrations(db, resolve(import.meta.dirname, '../../drizzle'))
+  const db = createTestDatabase('gloamline-slots-')
   const site = db.insert(sites).values(RAVNVIK).returning().get()
   const [ada, bo, cy] = db.insert(people).values([
     { name: 'Ada Test', email: 'ada@slots.test', role: 'crew' },

@@ -10,7 +10,7 @@ import { describe, expect, it } from 'vitest'
 import { checkShiftLight, computeOutingWindow } from '../../server/core/light/check'
 import { computeLightDaysMs } from '../../server/core/light/index'
 import { listValidSlotStarts, type SlotSearchInput } from '../../server/core/planning/slot-finder'
-import { nextDate, referenceMidnight } from './support/outlook-reference'
+import { nextDate, referenceMidnight } from '../support/outlook-reference'
 
 const PLACE = { latitude: 69.6496, longitude: 18.956, timezone: 'Europe/Oslo' }
 const DATE = '2027-02-20'

@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest'
 import { computeLightDaysMs } from '../../server/core/light/index'
 import { computeYearChart } from '../../server/core/light/year-chart'
 import { toWallMinute } from '../../shared/outlook'
-import { daysApart, referenceMidnight } from './support/outlook-reference'
+import { daysApart, referenceMidnight } from '../support/outlook-reference'
 
 const KVITFJELL = { siteId: 1, latitude: 78.2232, longitude: 15.6267, timezone: 'Arctic/Longyearbyen' }
 const TAMARACK = { siteId: 2, latitude: 62.454, longitude: -135.357, timezone: 'America/Whitehorse' }

@@ -3,8 +3,8 @@
 // invented test site where a shift around midnight is always in the dark.
 import Database from 'better-sqlite3'
 import { startFakeForecastServer } from '../../scripts/fake-forecast.mjs'
-import { signedInClient, startAppServer, type ApiClient, type AppServer } from '../support/app-server'
-import { runningClock, TEST_CLOCK, utcDateOf } from '../support/clock'
+import { signedInClient, startAppServer, type ApiClient, type AppServer } from './app-server'
+import { runningClock, TEST_CLOCK, utcDateOf } from './clock'
 
 export interface SafetyWorld {
   server: AppServer
