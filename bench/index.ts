@@ -5,6 +5,7 @@ import { pathToFileURL } from 'node:url'
 
 const BENCHES: [file: string, exportName: string][] = [
   ['light.bench.ts', 'runLightBench'],
+  ['feed.bench.ts', 'runFeedBench'],
   ['planning.bench.ts', 'runPlanningBench'],
   ['outlook.bench.ts', 'runOutlookBench'],
   ['rotations.bench.ts', 'runRotationsBench']

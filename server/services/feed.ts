@@ -137,8 +137,9 @@ const FEED_PAGE_MS = 90 * DAY_MS
 // stay in the feed as CANCELLED, so a calendar that already holds them drops them.
 function* addShiftEvents(db: AppDatabase, calendar: ICalCalendar, person: Person, nowMs: number, siteById: Map<number, Site>, homeUrl: string | null, live: Shift[]): Generator<void> {
   // one statement for the shifts, their people and their latest decisions; one light trace per site
-  // read in pages of 90 days of starts, with other requests let in between (one snapshot: the reads
-  // run in one transaction, which better-sqlite3 keeps open across the pages)
+  // read in pages of 90 days of starts, with other requests let in between. A shift moved by a write
+  // between two pages may be seen twice (kept once) or not at all in this render; the write changes
+  // the data stamp, so the next fetch renders afresh (services/feed-cache.ts).
   const fromMs = nowMs - FEED_PAST_MS
   const toMs = nowMs + FEED_FUTURE_MS
   const feedRows: ReturnType<typeof loadFeedShifts> = []
@@ -151,7 +152,10 @@ function* addShiftEvents(db: AppDatabase, calendar: ICalCalendar, person: Person
     }
   }
   const light = createSiteBandCutter(siteById, feedRows)
+  const seen = new Set<number>()
   for (const { row, assignees, review } of feedRows) {
+    if (seen.has(row.id)) continue
+    seen.add(row.id)
     if (row.cancelledAt === null) live.push(row)
     const site = siteById.get(row.siteId)!
     const zone = person.displayZone === 'site' ? site.timezone : person.displayZone
