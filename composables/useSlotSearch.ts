@@ -12,6 +12,8 @@ export interface SlotQuery {
   headcount?: number
   rank: SlotRank
   perDay: number
+  // minutes each way; absent: the site's default
+  travelMinutes?: number
 }
 
 /** Runs slot searches and keeps the last answer, or the server's message and field errors. */

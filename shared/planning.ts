@@ -38,6 +38,7 @@ export interface SiteBody {
   timezone: string
   defaultLight: LightRequirement
   reminderHour: number
+  travelMinutes?: number
   notes: string
 }
 
@@ -132,14 +133,15 @@ export const CONFLICT_WORDS: Record<ConflictKind, string> = {
   overlap: 'Overlapping shifts',
   rest: 'Short rest',
   long: 'Long shift',
-  unavailable: 'Unavailable'
+  unavailable: 'Unavailable',
+  weekly: 'Weekly hours'
 }
 
 type LightStateShift = Pick<ShiftReply, 'lightCheck' | 'reviewState'> & Partial<Pick<ShiftReply, 'reviewReasonDetails' | 'timezone' | 'review'>>
 
 /** The review reasons of a shift in words with their figures; for older replies, the light alone. */
 export function describeShiftReasons(shift: LightStateShift): string[] {
-  if (shift.reviewReasonDetails) return shift.reviewReasonDetails.map(r => describeReviewReason(r, shift.timezone))
+  if (shift.reviewReasonDetails?.length) return shift.reviewReasonDetails.map(r => describeReviewReason(r, shift.timezone))
   if (!shift.lightCheck.flagged) return []
   return [describeReviewReason({ reason: 'light', minutesBelow: shift.lightCheck.minutesBelow, requirement: shift.lightCheck.requirement }, shift.timezone)]
 }
@@ -152,8 +154,9 @@ export function describeLightState(shift: LightStateShift): LightState {
   const { flagged, minutesBelow, requirement } = shift.lightCheck
   const reasons = describeShiftReasons(shift)
   const why = reasons.length ? reasons.join('; ') : (flagged ? `${formatDuration(minutesBelow)} below ${REQUIREMENT_WORDS[requirement]}` : '')
-  const figures = shift.reviewReasonDetails?.map(r => describeReviewReasonFigure(r, shift.timezone)).join('; ') ?? why
-  const reasonWords = (shift.reviewReasonDetails ?? (flagged ? [{ reason: 'light' as const }] : [])).map(r => REVIEW_REASON_WORDS[r.reason].toLowerCase())
+  const details = shift.reviewReasonDetails?.length ? shift.reviewReasonDetails : (flagged ? [{ reason: 'light' as const, minutesBelow, requirement }] : [])
+  const figures = details.map(r => describeReviewReasonFigure(r, shift.timezone)).join('; ')
+  const reasonWords = details.map(r => REVIEW_REASON_WORDS[r.reason].toLowerCase())
   const note = shift.review?.current && shift.review.note ? ` Note: ${shift.review.note}` : ''
   if (shift.reviewState === 'not-needed') {
     const detail = requirement === 'any' ? 'Lit work area: no daylight needed' : `Within ${REQUIREMENT_WORDS[requirement]} throughout`
