@@ -45,7 +45,7 @@ describe('safety review in the browser', () => {
     expect(await cautions.textContent()).toContain('a competent supervisor decide')
     expect(await page.getByTestId('light-strip').textContent()).toContain('UTC')
 
-    await page.getByRole('radio', { name: /Approve with mitigations/ }).check()
+    await page.getByRole('radio', { name: /^Approve/ }).check()
     await page.getByRole('checkbox', { name: 'Portable work lighting on site' }).check()
     await page.getByRole('checkbox', { name: 'Warm-up breaks scheduled as the cold figures direct' }).check()
     await page.getByLabel('Note (optional)').fill('Head torches and the beacon mast floodlight.')
