@@ -4,7 +4,7 @@
 import { and, eq, gt, inArray, isNull, lt, sql } from 'drizzle-orm'
 import { people, shiftAssignees, shifts, sites, unavailability } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
-import { findFirstStartAtOrAfter, findShiftConflicts, type BlockedSpan, type ConflictCandidate, type NeighbourShift, type ShiftConflict, type WorkRules } from '../core/planning/conflicts'
+import { conflictReachMs, findFirstStartAtOrAfter, findShiftConflicts, type BlockedSpan, type ConflictCandidate, type NeighbourShift, type ShiftConflict, type WorkRules } from '../core/planning/conflicts'
 import { loadWorkRules } from './work-rules'
 
 const HOUR_MS = 3_600_000
@@ -73,7 +73,7 @@ export function loadConflictContext(db: Reader, candidates: ConflictCandidate[],
   const personIds = [...new Set(candidates.flatMap(c => c.personIds))]
   const empty = { rules, byPerson: new Map(), blockedByPerson: new Map(), personNames: new Map(), longestMs: 0 }
   if (!personIds.length || !candidates.length) return empty
-  const padMs = rules.minRestHours * HOUR_MS
+  const padMs = conflictReachMs(rules)
   const { fromMs, toMs } = spanOf(candidates)
   const names = db.select({ id: people.id, name: people.name }).from(people).where(inArray(people.id, personIds)).all()
   const neighbours = loadNeighbours(db, personIds, fromMs - padMs, toMs + padMs)
@@ -96,7 +96,7 @@ export function addConflictNeighbours(loaded: LoadedConflictContext, extra: Neig
 }
 
 function nearbyShifts(loaded: LoadedConflictContext, candidate: ConflictCandidate): NeighbourShift[] {
-  const padMs = loaded.rules.minRestHours * HOUR_MS
+  const padMs = conflictReachMs(loaded.rules)
   const near: NeighbourShift[] = []
   for (const personId of new Set(candidate.personIds)) {
     const list = loaded.byPerson.get(personId) ?? []

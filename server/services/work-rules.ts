@@ -10,7 +10,8 @@ import type { WorkRules } from '../core/planning/conflicts'
 // employer's procedures decide the real figures.
 // reviewWindChillC: −27 is where ECCC's wind chill table starts its high-risk band (exposed skin can
 // freeze in 10–30 minutes); work at or below it goes to safety review. The operator sets its own.
-export const DEFAULT_WORK_RULES: OperatorWorkRules = { minRestHours: 11, maxShiftHours: 12, reviewWindChillC: -27 }
+// weeklyLimitHours: off unless the operator turns it on (48 h is EU Directive 2003/88/EC art. 6).
+export const DEFAULT_WORK_RULES: OperatorWorkRules = { minRestHours: 11, maxShiftHours: 12, reviewWindChillC: -27, weeklyLimitHours: null }
 export const REVIEW_WIND_CHILL_RANGE = { min: -80, max: 10 } as const
 
 /** The work rules with the operator's review limit for cold. */
@@ -22,7 +23,8 @@ export const WORK_RULES_SETTING_KEY = 'work-rules'
 const StoredWorkRulesSchema = z.object({
   minRestHours: z.number().min(0).max(24),
   maxShiftHours: z.number().min(1).max(168),
-  reviewWindChillC: z.number().min(REVIEW_WIND_CHILL_RANGE.min).max(REVIEW_WIND_CHILL_RANGE.max)
+  reviewWindChillC: z.number().min(REVIEW_WIND_CHILL_RANGE.min).max(REVIEW_WIND_CHILL_RANGE.max),
+  weeklyLimitHours: z.number().min(1).max(168).nullable()
 }).partial()
 
 export const WorkRulesPatchSchema = z.object({
@@ -30,7 +32,9 @@ export const WorkRulesPatchSchema = z.object({
   maxShiftHours: z.number({ error: 'expected a number of hours' }).min(1, 'must be between 1 and 168').max(168, 'must be between 1 and 168').optional(),
   reviewWindChillC: z.number({ error: 'expected a wind chill in °C' })
     .min(REVIEW_WIND_CHILL_RANGE.min, `must be between ${REVIEW_WIND_CHILL_RANGE.min} and ${REVIEW_WIND_CHILL_RANGE.max}`)
-    .max(REVIEW_WIND_CHILL_RANGE.max, `must be between ${REVIEW_WIND_CHILL_RANGE.min} and ${REVIEW_WIND_CHILL_RANGE.max}`).optional()
+    .max(REVIEW_WIND_CHILL_RANGE.max, `must be between ${REVIEW_WIND_CHILL_RANGE.min} and ${REVIEW_WIND_CHILL_RANGE.max}`).optional(),
+  // null turns the weekly check off
+  weeklyLimitHours: z.number({ error: 'expected a number of hours, or null for no weekly check' }).min(1, 'must be between 1 and 168').max(168, 'must be between 1 and 168').nullable().optional()
 }).strict()
 
 type Reader = Pick<AppDatabase, 'select'>

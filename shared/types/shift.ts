@@ -5,7 +5,7 @@ import type { ReviewReason, ReviewReasonDetail } from '../review'
 
 export type ReviewState = 'not-needed' | 'pending' | 'approved' | 'rejected' | 'changes-requested'
 export type ReviewDecision = Exclude<ReviewState, 'not-needed' | 'pending'>
-export type ShiftConflictKind = 'overlap' | 'rest' | 'long' | 'unavailable'
+export type ShiftConflictKind = 'overlap' | 'rest' | 'long' | 'unavailable' | 'weekly'
 
 /** A work-rule warning: overlap, too little rest, too long, or an assignee away. */
 export interface ShiftConflict {

@@ -42,6 +42,15 @@ export interface ConflictContext {
 export interface WorkRules {
   minRestHours: number
   maxShiftHours: number
+  /** Hours of work in any 7 days above which each shift says so; null or absent: not checked. */
+  weeklyLimitHours?: number | null
+}
+
+const WEEK_MS = 7 * 24 * 3_600_000
+
+/** How far before and after a shift its neighbours matter: the rest period, or a week with the weekly limit on. */
+export function conflictReachMs(rules: WorkRules): number {
+  return Math.max(rules.minRestHours * 3_600_000, rules.weeklyLimitHours ? WEEK_MS : 0)
 }
 
 const HOUR_MS = 3_600_000
@@ -128,6 +137,28 @@ function findBlockedConflicts(candidate: ConflictCandidate, person: Assignee, sp
   }
 }
 
+/**
+ * The weekly limit: a person's hours of work in the 7 days that end when this shift ends (this shift
+ * and the parts of their other shifts inside that window). EU Working Time Directive 2003/88/EC art. 6
+ * sets 48 hours as the average over a reference period (up to 4 months, art. 16); a rolling 7-day
+ * figure is stricter than the directive and is reported as a warning for the planner to weigh.
+ */
+export function findWeeklyHoursConflict(candidate: ConflictCandidate, person: Assignee, others: NeighbourShift[], limitHours: number): ShiftConflict | null {
+  const fromMs = candidate.endMs - WEEK_MS
+  let workedMs = candidate.endMs - Math.max(candidate.startMs, fromMs)
+  const seen = new Set<number>()
+  for (const other of others) {
+    if (other.personId !== person.personId || other.shiftId === candidate.shiftId || seen.has(other.shiftId)) continue
+    seen.add(other.shiftId)
+    workedMs += Math.max(0, Math.min(other.endMs, candidate.endMs) - Math.max(other.startMs, fromMs))
+  }
+  if (workedMs <= limitHours * HOUR_MS) return null
+  return {
+    kind: 'weekly', personId: person.personId, personName: person.personName, otherShiftId: null,
+    message: `${person.who} works ${describeDuration(workedMs)} in the 7 days to the end of this shift, over the ${describeHours(limitHours)} weekly limit in the work rules (EU Directive 2003/88/EC art. 6 limits the average over a reference period; your agreement and local law decide)`
+  }
+}
+
 /** Every work-rule warning for a shift and its assignees, given their other shifts and blocked spans. */
 export function findShiftConflicts(candidate: ConflictCandidate, context: ConflictContext, rules: WorkRules): ShiftConflict[] {
   const conflicts: ShiftConflict[] = []
@@ -138,6 +169,8 @@ export function findShiftConflicts(candidate: ConflictCandidate, context: Confli
     const person = { personId, personName, who: personName ?? `Person #${personId}` }
     findNeighbourConflicts(candidate, person, context.otherShifts, rules, conflicts)
     findBlockedConflicts(candidate, person, context.unavailable, conflicts)
+    const weekly = rules.weeklyLimitHours ? findWeeklyHoursConflict(candidate, person, context.otherShifts, rules.weeklyLimitHours) : null
+    if (weekly) conflicts.push(weekly)
   }
   return conflicts
 }
