@@ -86,6 +86,8 @@ interface SunTrace {
   alts: Float64Array
   /** The same samples' geometric altitudes, when the trace has them (saves inverting the refraction). */
   geometric?: Float64Array
+  /** Geometric altitude (degrees) at any instant of the range, when the trace has its own model of it. */
+  altitudeAt?: (ms: number) => number
 }
 
 export interface LightDaysInput {
@@ -320,7 +322,7 @@ function traceSunCourse(latitude: number, longitude: number, fromMs: number, toM
     }
   }
   const startAltitude = course.altitudeDeg(fromMs)
-  return { startBand: bandIndexOfApparent(startAltitude + computeSuncalcRefractionDeg(startAltitude)), crossings, extrema, times, alts, geometric }
+  return { startBand: bandIndexOfApparent(startAltitude + computeSuncalcRefractionDeg(startAltitude)), crossings, extrema, times, alts, geometric, altitudeAt: ms => course.altitudeDeg(ms) }
 }
 
 /**
@@ -427,8 +429,8 @@ function describeBoundaries(trace: SunTrace, bounds: Float64Array): DayBoundary[
   return out
 }
 
-function sampleBoundary(boundary: DayBoundary, latitude: number, longitude: number): number {
-  if (Number.isNaN(boundary.exact)) boundary.exact = sampleSunAltitude(boundary.ms, latitude, longitude)
+function sampleBoundary(trace: SunTrace, boundary: DayBoundary, latitude: number, longitude: number): number {
+  if (Number.isNaN(boundary.exact)) boundary.exact = trace.altitudeAt ? trace.altitudeAt(boundary.ms) : sampleSunAltitude(boundary.ms, latitude, longitude)
   return boundary.exact
 }
 
@@ -448,7 +450,7 @@ function summarizeAltitudes(trace: SunTrace, cursor: DayCursor, start: DayBounda
   }
   for (const boundary of [start, end]) {
     if (boundary.high <= maxAlt && boundary.low >= minAlt) continue
-    const h = sampleBoundary(boundary, latitude, longitude)
+    const h = sampleBoundary(trace, boundary, latitude, longitude)
     if (h > maxAlt) {
       maxAlt = h
       // Still climbing at midnight (near the poles): the day's last second stands for its end.
