@@ -25,7 +25,7 @@ import { compareReviewQueueItems, shapeReviewQueueItem, type ReviewQueueItem } f
 import { loadAssignees, loadLatestReviews, loadShiftRowConflicts, toShiftView, type ShiftReviewSummary } from './shifts'
 import type { ShiftConflict } from '../core/planning/conflicts'
 import { describeWindowWeather, loadSiteForecast, loadSiteObservations, type ObservationRow, type SiteForecastState } from './site-weather'
-import { nowMs as clockNowMs } from '../core/time/clock'
+import { nowDate, nowMs as clockNowMs } from '../core/time/clock'
 import { attachWeatherHolds } from './holds'
 
 const HOUR_MS = 3_600_000
@@ -99,7 +99,8 @@ export function recordReviewDecision(db: AppDatabase, actor: { id: number }, shi
       throw conflict('This shift needs no review: no reason (light, cold, lone, long) holds for it.', { reviewState: shift.reviewState })
     }
     const snapshot = takeShiftSnapshot(tx, shift)
-    const row = tx.insert(reviews).values({ shiftId, reviewerId: actor.id, decision: input.decision, mitigations: input.mitigations, note: input.note, shiftVersion: shift.version, snapshot }).returning().get()
+    // the decision's time from the one clock (not SQLite's), so a test clock or a replay reads true
+    const row = tx.insert(reviews).values({ shiftId, reviewerId: actor.id, decision: input.decision, mitigations: input.mitigations, note: input.note, shiftVersion: shift.version, snapshot, createdAt: nowDate() }).returning().get()
     tx.update(shifts).set({ reviewState: input.decision }).where(eq(shifts.id, shiftId)).run()
     recordAudit(tx, actor.id, 'shift.review', 'shift', shiftId, {
       reviewId: row.id, decision: input.decision, mitigations: input.mitigations, note: input.note,
