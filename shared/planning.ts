@@ -62,6 +62,9 @@ export interface ShiftDraft {
 
 export interface ShiftCheckReply {
   travelMinutes?: number
+  // what would send the draft to safety review, as the write will store it
+  reviewReasons?: ShiftItem['reviewReasons']
+  reviewReasonDetails?: ShiftItem['reviewReasonDetails']
   lightCheck: { requirement: LightRequirement, minutesBelow: number, flagged: boolean, checkedFrom?: string, checkedTo?: string }
   bands: { kind: BandKind, start: string, end: string }[]
   conflicts: ShiftConflict[]
@@ -171,7 +174,7 @@ export function describeLightState(shift: LightStateShift): LightState {
 }
 
 const WALL_RE = /^\d{4}-\d{2}-\d{2}T([01]\d|2[0-3]):[0-5]\d$/
-/** Longest shift the server accepts (DESIGN.md bad input: longer than 7 days is refused). */
+/** Longest shift the server accepts (docs/api.md, "Shifts": longer than 7 days is refused). */
 export const MAX_SHIFT_MINUTES = 7 * 24 * 60
 
 /**

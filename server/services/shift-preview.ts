@@ -6,6 +6,7 @@ import { checkShiftLight } from '../core/light/check'
 import { computeCandidateConflicts } from './conflict-context'
 import { requireAssignees, requireSiteForShift, resolveShiftTimes, type ShiftInput } from './shifts'
 import { formatZonedIso } from '../core/time/zoned'
+import { assessShiftReview } from './reviews'
 
 /**
  * What POST /api/shifts would store for this body (light check, the light bands over the shift, the
@@ -20,8 +21,15 @@ export function previewShiftCheck(db: AppDatabase, body: ShiftInput & { shiftId?
   }
   const travelMinutes = body.travelMinutes ?? site.travelMinutes
   const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: body.light, travelMinutes })
+  // what would send it to safety review (light, cold, lone, long), as the write will store it
+  const reviewReasonDetails = assessShiftReview(db, {
+    site, window: { fromMs: check.checkedFromMs, toMs: check.checkedToMs }, startMs, endMs,
+    lightCheck: { flagged: check.flagged, minutesBelow: check.minutesBelow, requirement: check.requirement }, assigneeCount: personIds.length
+  })
   return {
     travelMinutes,
+    reviewReasons: reviewReasonDetails.map(r => r.reason),
+    reviewReasonDetails,
     lightCheck: {
       requirement: check.requirement, minutesBelow: check.minutesBelow, flagged: check.flagged,
       checkedFrom: formatZonedIso(check.checkedFromMs, site.timezone), checkedTo: formatZonedIso(check.checkedToMs, site.timezone)
