@@ -32,7 +32,7 @@ export default defineNuxtConfig({
     session: { maxAge: 60 * 60 * 24 * 14 }
   },
   dir: { app: 'app' },
-  // root-level layout on Nuxt 4 (STYLE.md): pages, components, server… live at the project root
+  // root-level layout on Nuxt 4 (docs/code.md): pages, components, server… live at the project root
   srcDir: '.',
   // separate build folders let several people build one checkout at once (see DEVELOPERS.md)
   buildDir: process.env.GLOAMLINE_BUILD_DIR || '.nuxt',

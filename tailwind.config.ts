@@ -32,7 +32,7 @@ export default {
       fontFamily: {
         sans: ['"Work Sans"', 'system-ui', 'sans-serif']
       },
-      // one type scale for the whole app: body 17–18 px, key figures 24 px and up (LOOK.md)
+      // one type scale for the whole app: body 17–18 px, key figures 24 px and up (docs/look.md)
       fontSize: {
         'sm': ['0.9375rem', { lineHeight: '1.4rem' }],
         'base': ['1.0625rem', { lineHeight: '1.6rem' }],

@@ -1,5 +1,5 @@
 // Renders the app icons (public/icon-192.png, public/icon-512.png) from public/icon.svg, the mark of
-// LOOK.md in snow on ink with room around it for launchers that crop icons to a circle.
+// docs/look.md in snow on ink with room around it for launchers that crop icons to a circle.
 // Run: node scripts/make-icons.mjs (uses Debian's Chromium through playwright-core).
 import { readFile } from 'node:fs/promises'
 import { resolve } from 'node:path'

@@ -1,7 +1,7 @@
 // Light bands, thresholds and requirement kinds shared by the server's light engine and the client.
 // Pure constants and types: imports neither Vue nor Nitro.
 
-/** Light bands from brightest to darkest (DESIGN.md, "The light model"). */
+/** Light bands from brightest to darkest (docs/light-model.md). */
 export const BAND_KINDS = ['day', 'civil', 'nautical', 'astronomical', 'night'] as const
 export type BandKind = typeof BAND_KINDS[number]
 
@@ -35,7 +35,7 @@ export const RISING_EVENT_BY_THRESHOLD = ['astronomical-dawn', 'nautical-dawn', 
 /** Setting event per threshold, in the order of BAND_THRESHOLDS_ASCENDING_DEG. */
 export const SETTING_EVENT_BY_THRESHOLD = ['astronomical-dusk', 'nautical-dusk', 'civil-dusk', 'sunset'] as const
 
-/** What a shift's task needs (DESIGN.md): `any` means the work area is artificially lit. */
+/** What a shift's task needs (docs/light-model.md, "Requirements"): `any` means the work area is artificially lit. */
 export const LIGHT_REQUIREMENT_KINDS = ['daylight', 'civil', 'any'] as const
 export type LightRequirement = typeof LIGHT_REQUIREMENT_KINDS[number]
 
@@ -46,13 +46,13 @@ export const BANDS_MEETING_REQUIREMENT: Record<LightRequirement, readonly BandKi
   any: BAND_KINDS
 }
 
-/** A shift is flagged from this many minutes below its requirement (DESIGN.md). */
+/** A shift is flagged from this many minutes below its requirement (docs/light-model.md). */
 export const FLAG_MINUTES_BELOW = 1
 
 export const DAY_STATUSES = ['midnight-sun', 'polar-night', 'rises-and-sets'] as const
 export type DayStatus = typeof DAY_STATUSES[number]
 
-/** Longest range one light request may cover, in local days (DESIGN.md: at most 366). */
+/** Longest range one light request may cover, in local days (docs/light-model.md: at most 366). */
 export const MAX_LIGHT_RANGE_DAYS = 366
 /**
  * The years the light engine answers for (its zone table and season search: 1901–2149, where the

@@ -1,4 +1,4 @@
-// The moon of one local day in words, from the light routes' `moon` (DESIGN.md, "Moon"): times on the
+// The moon of one local day in words, from the light routes' `moon` (docs/api.md, "Light"): times on the
 // site's wall clock as the reply writes them, a span cut at midnight shown as ending at 24:00.
 // Pure: no imports.
 

@@ -72,7 +72,7 @@ export const REVIEW_DECISION_VERBS: Record<typeof REVIEW_DECISIONS[number], stri
   'changes-requested': 'Send back'
 }
 
-/** Why a shift goes to safety review (DESIGN.md): its light, the cold, one person alone in the dark, its length. */
+/** Why a shift goes to safety review (docs/api.md): its light, the cold, one person alone in the dark, its length. */
 export const REVIEW_REASONS = ['light', 'cold', 'lone', 'long'] as const
 export type ReviewReason = typeof REVIEW_REASONS[number]
 

@@ -1,5 +1,5 @@
 import { ColdQuerySchema, computeColdFigures } from '../core/cold/index'
-// Cold figures for an air temperature and wind (DESIGN.md contract): wind chill, frostbite band and
+// Cold figures for an air temperature and wind (docs/api.md, "Cold"): wind chill, frostbite band and
 // the 4-hour work/warm-up schedule, with the cautions that go with them. Any signed-in role.
 export default defineEventHandler(async (event) => {
   await requireRole(event)

@@ -114,7 +114,7 @@ function describeFeedShift(shift: ReturnType<typeof describeCrewShift>, siteName
 const NO_FORECAST = { state: 'none' as const, latest: null, lastAttempt: null }
 
 /**
- * The event status tells the truth about the review (DESIGN.md): TENTATIVE while a decision is awaited
+ * The event status tells the truth about the review (docs/api.md): TENTATIVE while a decision is awaited
  * or the shift was sent back, CANCELLED when cancelled or rejected, CONFIRMED otherwise.
  */
 export function feedStatusOf(row: Pick<Shift, 'reviewState' | 'cancelledAt'>): ICalEventStatus {

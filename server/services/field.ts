@@ -18,7 +18,7 @@ import type { ShiftReply } from '../../shared/types/shift'
 import { attachWeatherHolds } from './holds'
 
 const MINUTE_MS = 60_000
-/** Parties back within this long stay on the board (DESIGN.md: 12 h). */
+/** Parties back within this long stay on the board (docs/api.md: 12 h). */
 export const FIELD_BOARD_BACK_HOURS = 12
 export const FIELD_SETTINGS_KEY = 'field'
 

@@ -51,7 +51,7 @@ function normaliseMitigation(item: string, checkInMinutes: number | undefined): 
     return `${OTHER_MITIGATION_PREFIX}${text}`
   }
   if ((MITIGATION_KEYS as readonly string[]).includes(value)) return value
-  // any other text is a mitigation in the reviewer's own words, kept verbatim (DESIGN.md: string[])
+  // any other text is a mitigation in the reviewer's own words, kept verbatim (docs/api.md: string[])
   if (!value) return { message: 'a mitigation may not be empty' }
   if (value.length > MAX_MITIGATION_TEXT) return { message: `a mitigation may be at most ${MAX_MITIGATION_TEXT} characters` }
   return value
@@ -72,7 +72,7 @@ export const ReviewBodySchema = z.object({
     if (typeof normal !== 'string') ctx.addIssue({ code: 'custom', path: ['mitigations', i], message: normal.message })
     else if (!mitigations.includes(normal)) mitigations.push(normal)
   })
-  // a decision needs substance (DESIGN.md): an approval names what makes the work acceptable
+  // a decision needs substance (docs/api.md): an approval names what makes the work acceptable
   if (body.decision === 'approved' && !body.mitigations.length) ctx.addIssue({ code: 'custom', path: ['mitigations'], message: 'an approval needs at least one mitigation' })
   if (body.decision === 'rejected' && !body.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'a rejection needs a reason' })
   if (body.decision === 'changes-requested' && !body.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'say which changes are needed' })

@@ -26,7 +26,7 @@ function readEnv(env: Record<string, string | undefined>) {
     // single process (GLOAMLINE_WORKER unset) runs them itself
     timerWorker: !env.GLOAMLINE_WORKER || env.GLOAMLINE_WORKER === '0',
     reminderIntervalMs: Math.max(positiveNumber(env.REMINDER_TIMER_INTERVAL_MS) ?? 60_000, 100),
-    // the field alert check runs at least once a minute (DESIGN.md); FIELD_ALERT_TIMER=off stops it
+    // the field alert check runs at least once a minute (docs/api.md); FIELD_ALERT_TIMER=off stops it
     fieldAlertTimer: env.FIELD_ALERT_TIMER !== 'off',
     fieldAlertIntervalMs: Math.min(Math.max(positiveNumber(env.FIELD_ALERT_INTERVAL_MS) ?? 30_000, 100), 60_000),
     mailRetryBaseMs: positiveNumber(env.MAIL_RETRY_BASE_MS),

@@ -64,7 +64,7 @@ export interface ShiftReply {
   timeNotes?: string[]
 }
 
-/** A weather hold on a shift (DESIGN.md: level, at, cause), with the level's advice and the figures. */
+/** A weather hold on a shift (docs/api.md: level, at, cause), with the level's advice and the figures. */
 export interface ShiftWeatherHold {
   level: string
   at: string

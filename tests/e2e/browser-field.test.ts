@@ -60,7 +60,7 @@ describe('a lone worker checks out on a phone and is not back in time', () => {
     const leave = buttons.getByTestId('field-depart')
     const box = (await leave.boundingBox())!
     expect(box.height).toBeGreaterThanOrEqual(72)
-    // the width of the card on a 390 px phone, well beyond the 44 px minimum (LOOK.md), for gloves
+    // the width of the card on a 390 px phone, well beyond the 44 px minimum (docs/look.md), for gloves
     expect(box.width).toBeGreaterThanOrEqual(250)
     await leave.click()
     await buttons.getByTestId('field-state').waitFor()

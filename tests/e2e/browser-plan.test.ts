@@ -1,14 +1,14 @@
 // The plan calendar in headless Chromium: the coordinator sees the dark bands and a flagged shift,
 // drags it into daylight and sees it cleared; a stale drag is rolled back with the server's message;
 // crew see the same week read-only. What "daylight" means at the site is checked against
-// astronomy-engine 2.1.19 (geometric altitude of the sun's centre, no refraction, as DESIGN.md).
+// astronomy-engine 2.1.19 (geometric altitude of the sun's centre, no refraction, as docs/light-model.md).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Body, Equator, Horizon, Observer } from 'astronomy-engine'
 import type { Browser, Page } from 'playwright-core'
 import { signedInClient, startAppServer, type ApiClient, type AppServer } from '../support/app-server'
 import { keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
 
-// USNO: sunrise/sunset when the centre of the disc is 0.833° below the horizon (DESIGN.md)
+// USNO: sunrise/sunset when the centre of the disc is 0.833° below the horizon (docs/light-model.md)
 const SUNRISE_ALTITUDE = -0.833
 // a fixed week in March 2027, when every band from night to daylight occurs at 78°N
 const WEEK = '2027-03-01'

@@ -103,7 +103,7 @@ describe('the calendar feed', () => {
     expect(autumn.description).toContain('UTC+02:00 → UTC+01:00 (clocks change)')
   })
 
-  // DESIGN.md: STATUS:CANCELLED for a cancelled shift (RFC 5545 3.8.1.11), so a calendar that holds it drops it
+  // docs/api.md: STATUS:CANCELLED for a cancelled shift (RFC 5545 3.8.1.11), so a calendar that holds it drops it
   it('keeps a cancelled shift as CANCELLED, so calendars that hold it drop it', async () => {
     expect((await coordinator.delete(`/api/shifts/${created.spring}`)).status).toBe(200)
     const { url } = (await crew.get('/api/me/feed')).body

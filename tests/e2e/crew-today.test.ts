@@ -2,7 +2,7 @@
 // (GET /api/sites/:id/light), the change from the day before is the difference of its minutes, the
 // review decision and its measures come through, and the stored forecast gives wind chill and cold
 // cautions as the published tables have them: the 2001 wind chill index (NWS / ECCC formula, metric),
-// the ECCC frostbite bands and the ACGIH 4-hour work/warm-up schedule (REFERENCES.md).
+// the ECCC frostbite bands and the ACGIH 4-hour work/warm-up schedule (docs/references.md).
 import { createHash } from 'node:crypto'
 import Database from 'better-sqlite3'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'

@@ -2,7 +2,7 @@
 // misses a check-in and a party that is late back raise one mail per escalation step to every active
 // safety officer and coordinator, once, across SIGKILL restarts and with two processes on one
 // database. Time moves by restarting the server with its test clock further on (GLOAMLINE_CLOCK_START),
-// never by waiting. The rules are DESIGN.md's ("Travel, weather holds, check-out and return").
+// never by waiting. The rules are those of docs/api.md ("Travel, weather holds and the field").
 import Database from 'better-sqlite3'
 import { afterEach, describe, expect, it } from 'vitest'
 import { startMailSink } from '../../scripts/mail-sink.mjs'

@@ -1,6 +1,6 @@
 // Weather holds and readings from the field through the built server: the operator's levels are
 // theirs to set (coordinator or safety), every shift reply carries the hold reached in the hours of
-// its outing (travel included), and a reading relayed for the hours ahead counts. DESIGN.md,
+// its outing (travel included), and a reading relayed for the hours ahead counts. docs/api.md,
 // "Travel, weather holds, check-out and return". Wind chill: the 2001 North American index (ECCC/NWS).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { signedInClient, startAppServer, type ApiClient, type AppServer } from '../support/app-server'

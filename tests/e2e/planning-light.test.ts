@@ -4,7 +4,7 @@ import { signedInClient, startAppServer, type ApiClient, type AppServer } from '
 
 // The light check of shifts created through the API, against astronomy-engine (npm, VSOP87 with
 // precession, nutation and aberration; independent of suncalc and of the light engine). Thresholds are
-// DESIGN.md's USNO conventions on the geometric altitude of the sun's centre: daylight needs h ≥ −0.833°,
+// the USNO conventions of docs/light-model.md on the geometric altitude of the sun's centre: daylight needs h ≥ −0.833°,
 // civil light h ≥ −6°. Shifts sit across civil dusk, on a polar-night day, over a daylight-saving change
 // and across local midnight, at 69° N, 78° N and 78° S; minutes below must match within ±1.
 const MINUTE_MS = 60_000

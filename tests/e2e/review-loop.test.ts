@@ -97,7 +97,7 @@ describe('every reason sends work to review', () => {
     expect(queue.items.map((i: any) => i.shift.id)).toContain(shiftIds.long)
   })
 
-  it('marks waiting work TENTATIVE in the person\'s calendar feed (DESIGN.md, RFC 5545 STATUS)', async () => {
+  it('marks waiting work TENTATIVE in the person\'s calendar feed (docs/api.md, RFC 5545 STATUS)', async () => {
     const statuses = await feedStatuses()
     expect(statuses.get(`shift-${shiftIds.lone}@gloamline`)).toBe('TENTATIVE')
     expect(statuses.get(`shift-${shiftIds.long}@gloamline`)).toBe('TENTATIVE')

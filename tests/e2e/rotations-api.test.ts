@@ -2,7 +2,7 @@ import Database from 'better-sqlite3'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { signedInClient, startAppServer, type ApiClient, type AppServer } from '../support/app-server'
 
-// The rotation routes on the built server, as DESIGN.md ("Rotations") fixes them: made, read, changed
+// The rotation routes on the built server, as docs/api.md ("Rotations") fixes them: made, read, changed
 // and cancelled from a date, decided as one; bad input answered 400 naming the field with nothing
 // written. The site and people are invented here; dates are far from the seeded demo weeks. Wall
 // clock reference: the tz data through Intl (Arctic/Longyearbyen, EU summer time, back 31 Oct 2027).

@@ -78,7 +78,7 @@ describe('recording a decision', () => {
     })
   }
 
-  it('keeps a mitigation in the reviewer\'s own words verbatim, as DESIGN.md takes any list of strings', async () => {
+  it('keeps a mitigation in the reviewer\'s own words verbatim, as docs/api.md takes any list of strings', async () => {
     const shift = await createDarkShift(world.coordinator, siteId, { daysAhead: 4, assigneeIds: crewIds.slice(0, 2) })
     const reply = await world.safety.post(`/api/shifts/${shift.id}/review`, { decision: 'approved', mitigations: ['Head torches for all', 'portable-lighting'], note: '' })
     expect(reply.status).toBe(201)
@@ -106,7 +106,7 @@ describe('recording a decision', () => {
   })
 
   it('answers 409 for a shift with no review reason, naming why', async () => {
-    // the same site and hours, but a lit work area: nothing is below requirement (DESIGN.md, "any")
+    // the same site and hours, but a lit work area: nothing is below requirement (docs/light-model.md, "any")
     const start = dateFromToday(6)
     const lit = (await world.coordinator.post('/api/shifts', { siteId, title: 'Lit yard work', start: `${start}T23:00:00Z`, end: `${start}T23:30:00Z`, light: 'any', assigneeIds: crewIds.slice(0, 2) })).body
     expect(lit.reviewState).toBe('not-needed')

@@ -8,7 +8,7 @@ function shift(minutesBelow: number, requirement: LightRequirement, reviewState:
   return { lightCheck: { requirement, minutesBelow, flagged: minutesBelow >= 1 }, reviewState }
 }
 
-// The light state must read in words and an icon, never colour alone (LOOK.md).
+// The light state must read in words and an icon, never colour alone (docs/look.md).
 describe('the light-state marker', () => {
   it('says Clear, with an icon, for a shift that meets its requirement', async () => {
     const el = await mountSuspended(ShiftLightMarker, { props: { shift: shift(0, 'daylight', 'not-needed'), detail: true } })

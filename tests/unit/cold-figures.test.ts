@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { ColdQuerySchema, computeColdFigures } from '../../server/core/cold/index'
 import { COLD_CAUTIONS } from '../../shared/cold'
 
-describe('computeColdFigures (GET /api/cold shape from DESIGN.md)', () => {
+describe('computeColdFigures (GET /api/cold shape from docs/api.md)', () => {
   it('combines wind chill, frostbite band and warm-up schedule for a metric request', () => {
     // ECCC chart (memory): −30 °C with 30 km/h reads −46; ECCC band −40 to −47: 5–10 minutes.
     // ACGIH schedule: row −29 to −31, 32 km/h column → 30 minutes, 5 breaks.
@@ -13,7 +13,7 @@ describe('computeColdFigures (GET /api/cold shape from DESIGN.md)', () => {
   })
 
   it('answers an imperial request in °F and bands it on the °C index', () => {
-    // NWS example quoted in REFERENCES.md: 0 °F, 15 mph → −19 °F (−28.6 °C: ECCC band −28 to −39).
+    // NWS example quoted in docs/references.md: 0 °F, 15 mph → −19 °F (−28.6 °C: ECCC band −28 to −39).
     const figures = computeColdFigures({ temperature: 0, wind: 15, units: 'imperial' })
     expect(figures.windChill).toBe(-19)
     expect(figures.frostbite).toMatchObject({ key: 'high', wholeDegreeC: -29, minMinutes: 10, maxMinutes: 30 })

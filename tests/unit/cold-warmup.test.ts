@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { lookupWarmupSchedule } from '../../server/core/cold/index'
 
 // ACGIH TLVs work/warm-up schedule for a 4-hour shift (after the Saskatchewan Department of Labour),
-// as reproduced by OSHA and CCOHS and transcribed in REFERENCES.md: moderate to heavy work.
+// as reproduced by OSHA and CCOHS and transcribed in docs/references.md: moderate to heavy work.
 // Each cell: [max work minutes (null = normal breaks), number of breaks], or 'stop'.
 // Columns: no noticeable wind, 8, 16, 24, 32 km/h.
 type Cell = [number | null, number] | 'stop'

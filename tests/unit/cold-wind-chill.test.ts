@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { classifyFrostbiteRisk, computeWindChill, convertFahrenheitToCelsius, convertMphToKmh } from '../../server/core/cold/index'
 
 // National Weather Service Wind Chill Chart (2001 index): [air °F, wind mph, chart °F].
-// The first two cells are the NWS examples quoted in REFERENCES.md (the second is also OSHA's
+// The first two cells are the NWS examples quoted in docs/references.md (the second is also OSHA's
 // cold stress example); the other cells are the chart as remembered (memory), each also
 // re-derived from the published formula before being written here.
 const NWS_CHART_CELLS: [number, number, number][] = [

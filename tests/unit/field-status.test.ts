@@ -1,4 +1,4 @@
-// A party's field state and alert steps at their boundaries. The rules are DESIGN.md's ("Travel, weather
+// A party's field state and alert steps at their boundaries. The rules are those of docs/api.md ("Travel, weather
 // holds, check-out and return"): overdue from expectedBackAt + overdueGraceMinutes, a lone worker's
 // missed check-in after soloCheckInMinutes without word, one alert step at once and one more every
 // escalateEveryMinutes. Expected return, a later alert time and stepped escalation are common practice

@@ -43,7 +43,7 @@ describe('shift light check against astronomy-engine', () => {
 
   it('stays within the models\' own difference where the sun barely moves (78°N around midnight in April)', () => {
     // Here the sun skims the horizon at ~0.01°/min, so suncalc and astronomy-engine, which differ by
-    // up to ~0.016° in altitude (REFERENCES.md), honestly differ by more than a minute. Allow 1 minute
+    // up to ~0.016° in altitude (docs/references.md), honestly differ by more than a minute. Allow 1 minute
     // plus 0.02° at the reference's own rate for each crossing inside the shift.
     const shift = { name: 'April midnight', latitude: 78, longitude: 15.6, start: '2026-04-18T20:00:00+02:00', end: '2026-04-19T04:00:00+02:00' }
     const startMs = Date.parse(shift.start)

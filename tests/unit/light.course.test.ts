@@ -8,7 +8,7 @@ import { SUNCALC_HORIZON_REFRACTION_DEG } from '../../server/core/sun/position'
 // the horizon is the geometric altitude + its constant refraction (node_modules/suncalc/index.js,
 // astroRefraction clamps at 0): each reported crossing must be where that altitude passes the
 // threshold, i.e. on opposite sides of it 1 s before and 1 s after the reported second (± the 0.5 s
-// rounding to whole seconds). Thresholds: DESIGN.md, −0.833°, −6°, −12°, −18° (USNO).
+// rounding to whole seconds). Thresholds: docs/light-model.md, −0.833°, −6°, −12°, −18° (USNO).
 const THRESHOLD: Record<string, number> = {
   'sunrise': -0.833, 'sunset': -0.833, 'civil-dawn': -6, 'civil-dusk': -6,
   'nautical-dawn': -12, 'nautical-dusk': -12, 'astronomical-dawn': -18, 'astronomical-dusk': -18

@@ -33,7 +33,7 @@ function intlLocalMidnight(date: string, timezone: string): number {
   return hi
 }
 
-// Everything that breaks the partition contract for one day (DESIGN.md, "The light model"), as text.
+// Everything that breaks the partition contract for one day (docs/light-model.md), as text.
 function findPartitionProblems(day: LightDayMs, startMs: number, endMs: number): string[] {
   const problems: string[] = []
   const note = (what: string) => problems.push(`${day.date}: ${what}`)
@@ -151,21 +151,21 @@ describe('published and common-practice facts', () => {
   })
 
   it('does not set the sun on the Arctic Circle at the June solstice', () => {
-    // Arctic Circle 66°33′51″ ≈ 66.56°N (REFERENCES.md, from the 2026 mean obliquity).
+    // Arctic Circle 66°33′51″ ≈ 66.56°N (docs/references.md, from the 2026 mean obliquity).
     const day = oneDay(66.56, 25.7, 'Europe/Helsinki', '2026-06-21')
     expect(day.status).toBe('midnight-sun')
     expect(day.events.filter(e => e.type === 'sunset')).toEqual([])
   })
 
   it('sees the midnight sun at the June solstice from about 65°44′N, not south of it', () => {
-    // REFERENCES.md, "Polar latitudes": with standard refraction the midnight sun is seen on the
+    // docs/references.md, "Polar latitudes": with standard refraction the midnight sun is seen on the
     // June solstice from about 65°44′ (65.73°N).
     expect(oneDay(65.9, 25.7, 'Europe/Helsinki', '2026-06-21').status).toBe('midnight-sun')
     expect(oneDay(65.5, 25.7, 'Europe/Helsinki', '2026-06-21').status).toBe('rises-and-sets')
   })
 
   it('keeps 78°N in polar night at the December solstice, without even civil light', () => {
-    // Polar night at 78°N in December (common practice; REFERENCES.md: civil polar night from 72°34′).
+    // Polar night at 78°N in December (common practice; docs/references.md: civil polar night from 72°34′).
     const day = oneDay(78.22, 15.65, 'Arctic/Longyearbyen', '2026-12-21')
     expect(day.status).toBe('polar-night')
     expect(day.civilLightMinutes).toBe(0)
@@ -173,7 +173,7 @@ describe('published and common-practice facts', () => {
   })
 
   it('shows the sun about 190 days a year at the North Pole and about 183 at the South Pole', () => {
-    // REFERENCES.md, "Orbital eccentricity" (common practice): the northern summer half-year is about
+    // docs/references.md, "Orbital eccentricity" (common practice): the northern summer half-year is about
     // a week longer, so the North Pole sees the sun for about 190 days and the South Pole about 183.
     const daylightDays = (latitude: number) => yearOf(latitude, 0, 'UTC').reduce((sum, d) => sum + d.daylightMinutes, 0) / 1440
     const north = daylightDays(90)

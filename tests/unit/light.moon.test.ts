@@ -1,7 +1,7 @@
 // The moon layer against an outside reference: astronomy-engine 2.1.19 (npm), topocentric moon from
 // Equator(Body.Moon, date, observer, ofdate = true, aberration = true) then Horizon(...) WITHOUT
-// refraction, and Illumination(Body.Moon, date).phase_fraction for the lit fraction (REFERENCES.md,
-// "Moon"). The −0.833° rise and set altitude for the centre is the sun's convention (DESIGN.md, "Moon").
+// refraction, and Illumination(Body.Moon, date).phase_fraction for the lit fraction (docs/references.md,
+// "Moon"). The −0.833° rise and set altitude for the centre is the sun's convention (docs/api.md, "Light").
 import { describe, expect, it } from 'vitest'
 import { Body, Equator, Horizon, Illumination, Observer } from 'astronomy-engine'
 import { MOON_HORIZON_DEG, attachMoonToDays, computeMoonDays, computeMoonDaysMs, summariseMoonDays, type MoonDayMs } from '../../server/core/light/moon'
@@ -67,7 +67,7 @@ describe('moon up spans against astronomy-engine (topocentric, unrefracted)', ()
       expect(r.samples).toBeGreaterThan(8000)
       expect(r.mismatches).toBe(0)
       expect(r.events).toBeGreaterThan(10)
-      // REFERENCES.md measured 0.005° at 74.5°N; the issue allows 0.05°
+      // docs/references.md measured 0.005° at 74.5°N; the issue allows 0.05°
       expect(r.maxEventError).toBeLessThan(0.05)
       // at these latitudes the moon stays up all day for some days of each month and never rises on others
       expect(r.fullDays).toBeGreaterThan(2)

@@ -1,7 +1,7 @@
 // The light engine against an outside reference: astronomy-engine 2.1.19 (geometric altitude from
 // Observer + Equator(of date, aberration) + Horizon without refraction; crossings from its own
 // SearchAltitude). suncalc's geometric altitude differs from it by ~0.003° typically and up to
-// ~0.016° (REFERENCES.md, "Measured here"), hence the 0.02° tolerance below.
+// ~0.016° (docs/references.md, "Measured for this page"), hence the 0.02° tolerance below.
 import { describe, expect, it } from 'vitest'
 import { computeLightDaysMs } from '../../server/core/light/index'
 import { BAND_THRESHOLDS_ASCENDING_DEG, RISING_EVENT_BY_THRESHOLD, SETTING_EVENT_BY_THRESHOLD, type LightDayMs, type SunEventType } from '../../shared/light'

@@ -20,7 +20,7 @@ import { referenceAltitude, referenceAzimuth } from '../support/sun-reference'
 
 describe('suncalc refraction, undone', () => {
   it('adds a constant ~0.484° below the horizon, as its clamped Meeus 16.4 model implies', () => {
-    // REFERENCES.md (measured of suncalc 2.x): Meeus 16.4 evaluated at altitude 0 below the horizon, ≈ 0.484°.
+    // docs/references.md (measured of suncalc 2.x): Meeus 16.4 evaluated at altitude 0 below the horizon, ≈ 0.484°.
     expect(SUNCALC_HORIZON_REFRACTION_DEG).toBeCloseTo(0.484, 3)
     expect(computeSuncalcRefractionDeg(-5)).toBe(SUNCALC_HORIZON_REFRACTION_DEG)
     expect(computeSuncalcRefractionDeg(10)).toBeLessThan(0.1)
@@ -40,7 +40,7 @@ describe('suncalc refraction, undone', () => {
   })
 
   it('agrees with astronomy-engine\'s unrefracted altitude within 0.02° (and would not without the inversion)', () => {
-    // REFERENCES.md, "Measured here": suncalc vs astronomy-engine geometric altitude, max 0.016°.
+    // docs/references.md, "Measured for this page": suncalc vs astronomy-engine geometric altitude, max 0.016°.
     let worst = 0
     let worstBelowWithoutInversion = Infinity
     for (const [lat, lon] of [[0, 0], [45, 7.7], [69.65, 18.96], [78.22, 15.65], [-77.85, 166.67], [-89.5, 0]] as const) {

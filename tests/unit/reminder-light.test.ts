@@ -81,7 +81,7 @@ describe('the light window a reminder prints, against astronomy-engine', () => {
     expect(day!.statusWords).toMatch(/^Polar night/)
     const rows = describeLightRows(day!)
     expect(rows.find(r => r.key === 'sunrise')!.value).toBe('none: polar night')
-    // at 78° N in mid-December the noon sun stays below −6° too (REFERENCES.md: civil polar night from 72°34′)
+    // at 78° N in mid-December the noon sun stays below −6° too (docs/references.md: civil polar night from 72°34′)
     expect(rows.find(r => r.key === 'civil-dawn')!.value).toBe('none: no civil light')
   })
 
@@ -107,7 +107,7 @@ describe('the light window a reminder prints, against astronomy-engine', () => {
 })
 
 describe('change wording', () => {
-  it('writes a loss with a true minus sign and durations as h and min (LOOK.md)', () => {
+  it('writes a loss with a true minus sign and durations as h and min (docs/look.md)', () => {
     expect(describeMinutesChange(-27, 'yesterday')).toBe('−27 min since yesterday')
     expect(describeMinutesChange(64, 'yesterday')).toBe('+1 h 4 min since yesterday')
     expect(describeMinutesChange(0, 'yesterday')).toBe('same as yesterday')

@@ -58,7 +58,7 @@ function shift(overrides: Partial<ShiftReply> = {}): ShiftReply {
 }
 
 describe('light strip of a shift', () => {
-  // Which bands meet which requirement: DESIGN.md "The light model" (USNO band conventions).
+  // Which bands meet which requirement: docs/light-model.md (USNO band conventions).
   it('marks civil twilight as meeting a civil requirement and not a daylight one', () => {
     const b = bands(['nautical', 30], ['civil', 45], ['day', 120])
     expect(buildLightStrip(b, 'civil', ZONE).map(s => s.meetsRequirement)).toEqual([false, true, true])

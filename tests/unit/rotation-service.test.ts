@@ -1,5 +1,5 @@
 // Rotations on a fresh SQLite database, as the routes run them. References: the sun from
-// astronomy-engine 2.1.19 (geometric altitude of the centre, USNO band thresholds, DESIGN.md); the
+// astronomy-engine 2.1.19 (geometric altitude of the centre, USNO band thresholds, docs/light-model.md); the
 // wall clock from the tz data through Intl (Arctic/Longyearbyen: EU summer time, Directive
 // 2000/84/EC, forward 28 March 2027 and back 31 October 2027, 01:00 UTC).
 import { afterEach, describe, expect, it } from 'vitest'
@@ -40,7 +40,7 @@ function intlWall(ms: number) {
 
 // Minutes of [start, end) below daylight by astronomy-engine, with the allowance the light engine's
 // own tests use where the sun skims a threshold: suncalc and astronomy-engine differ by up to ~0.016°
-// in altitude (REFERENCES.md), worth more than a minute when the sun barely moves.
+// in altitude (docs/references.md), worth more than a minute when the sun barely moves.
 function referenceCheck(startMs: number, endMs: number) {
   const timeline = new ReferenceTimeline(SITE.latitude, SITE.longitude, startMs - HOUR_MS, endMs + HOUR_MS)
   const minutes = referenceMinutesOutside(timeline, startMs, endMs, BANDS_MEETING_REQUIREMENT.daylight)
@@ -183,7 +183,7 @@ describe('a rotation on a database', () => {
     const single = createShift(db, coord, ShiftBodySchema.parse({ siteId: site.id, title: 'Alone', light: 'any', start: '2027-12-02T09:00', end: '2027-12-02T15:00', assigneeIds: [ana.id] }))
     const alone = findShiftView(db, single.id)!
     for (const s of rotationShifts) {
-      // DESIGN.md: lone = exactly one person and any minute with the sun below −6°; in December at 76°N every minute is
+      // docs/api.md: lone = exactly one person and any minute with the sun below −6°; in December at 76°N every minute is
       expect(s.reviewReasons).toEqual(alone.reviewReasons)
       expect(s.reviewReasons).toContain('lone')
       expect(s.reviewState).toBe('pending')

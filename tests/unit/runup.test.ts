@@ -5,7 +5,7 @@ import { daysApart, nextDate, referenceDays, type ReferenceDay } from '../suppor
 
 // Reference: astronomy-engine (npm), geometric altitude of the sun's centre sampled every 10 minutes
 // over each local day (tests/support/outlook-reference.ts). Sunrise means the centre rising
-// through −0.833°, civil light means −6° or higher (USNO conventions, DESIGN.md). The issue asks for
+// through −0.833°, civil light means −6° or higher (USNO conventions, docs/light-model.md). The issue asks for
 // the run-up dates within a day of the reference.
 
 interface RefRunup {

@@ -7,8 +7,8 @@ import { nextDate, referenceMidnight, referenceMinAltitude } from '../support/ou
 // References:
 // - Light: astronomy-engine (npm), the geometric altitude of the sun's centre sampled every minute
 //   over a slot (tests/support/outlook-reference.ts); a slot in daylight keeps it at or above
-//   −0.833°, in civil light at or above −6° (USNO conventions, DESIGN.md). The light engine's own
-//   altitudes were measured within 0.017° of astronomy-engine (REFERENCES.md): that is the tolerance.
+//   −0.833°, in civil light at or above −6° (USNO conventions, docs/light-model.md). The light engine's own
+//   altitudes were measured within 0.017° of astronomy-engine (docs/references.md): that is the tolerance.
 // - Work rules: EU Working Time Directive 2003/88/EC art. 3 (11 h daily rest) and a 12 h longest
 //   shift (common practice), as the planning module's conflict check applies them.
 // Site: 69.6496° N 18.956° E, Europe/Oslo; the people, shifts and leave below are invented.

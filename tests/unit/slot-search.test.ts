@@ -7,7 +7,7 @@ import { referenceMidnight } from '../support/outlook-reference'
 
 // The slot search as the route runs it, on a fresh SQLite database with invented people and sites.
 // Reference for civil dawn: astronomy-engine SearchAltitude, the sun's centre rising through −6°
-// (USNO civil twilight, DESIGN.md). Clock changes: EU summer time (Directive 2000/84/EC) as the tz
+// (USNO civil twilight, docs/light-model.md). Clock changes: EU summer time (Directive 2000/84/EC) as the tz
 // data applies it to Europe/Oslo, 01:00 UTC on the last Sunday of March.
 const RAVNVIK = { name: 'Test Yard 69N', latitude: 69.6496, longitude: 18.956, timezone: 'Europe/Oslo' }
 const PAST = Date.parse('2020-01-01T00:00:00Z')

@@ -1,8 +1,8 @@
 // The light check and the slot finder over a whole outing (leave = start − travel, back = end + travel),
 // at several travel lengths, at dawn and at dusk.
 // Reference: astronomy-engine 2.1.19 (npm), SearchAltitude on the geometric (unrefracted) altitude of
-// the sun's centre: sunrise/sunset at −0.833°, civil dawn/dusk at −6° (USNO conventions, DESIGN.md).
-// The light engine's crossings were measured within 0.017° of the reference (REFERENCES.md), about
+// the sun's centre: sunrise/sunset at −0.833°, civil dawn/dusk at −6° (USNO conventions, docs/light-model.md).
+// The light engine's crossings were measured within 0.017° of the reference (docs/references.md), about
 // 15 s of time at this site and season: the tolerance below is one minute.
 // Site: 69.6496° N 18.956° E (an invented yard on the coast of Troms), Europe/Oslo, 20 Feb 2027.
 import { Body, MakeTime, Observer, SearchAltitude } from 'astronomy-engine'

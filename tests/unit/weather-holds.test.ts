@@ -1,9 +1,9 @@
-// Weather holds at each figure's boundary (DESIGN.md: a level is reached in an hour when any one of
+// Weather holds at each figure's boundary (docs/api.md: a level is reached in an hour when any one of
 // its figures is reached: wind at or above, wind chill at or below, visibility at or below; the most
 // severe level reached over the outing wins, `at` is its first hour). Levels here are invented for the
 // test, as an operator would set its own. Wind chill: the 2001 North American index (ECCC/NWS), whole
 // degrees as published; the chart values used are from ECCC's wind chill table (memory), and checked
-// against the formula in REFERENCES.md by the cold tests.
+// against the formula in docs/references.md by the cold tests.
 import { afterEach, describe, expect, it } from 'vitest'
 import { evaluateWeatherHold, findHoldCause, hourWindChillC, type HoldHour, type HoldLevel } from '../../server/core/cold/holds'
 import { loadSiteHourlyWeather } from '../../server/services/site-weather'

@@ -8,7 +8,7 @@ const QuerySchema = z.object({ date: LocalDateSchema })
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'coordinator')
   const { date } = readQueryAs(event, QuerySchema)
-  // any date is accepted, a past one too (DESIGN.md): the coordinator may resend a missed evening
+  // any date is accepted, a past one too (docs/api.md): the coordinator may resend a missed evening
   const db = useDB()
   const result = await runRemindersForDate(db, date, { baseUrl: resolvePublicBaseUrl(event) })
   recordAudit(db, actor.id, 'reminders.run', 'reminder', null, { date, ...result })

@@ -1,7 +1,7 @@
 // Weather holds: the operator's own levels (names, figures and advice are theirs; the product names
 // none), evaluated over the hours of a shift's outing. Common practice in polar programmes is a few
 // "conditions", each reached when any one of wind, wind chill or visibility reaches its figure, each
-// with its own travel rule (REFERENCES.md, "Weather holds"). Pure: plain inputs and outputs.
+// with its own travel rule (docs/references.md, "Work hours and people"). Pure: plain inputs and outputs.
 import { computeWindChill } from './index'
 
 export const HOLD_CAUSES = ['windKmh', 'windChillC', 'visibilityM'] as const

@@ -1,9 +1,9 @@
 // A party's state in the field and the alert step it has reached. Pure: plain inputs and outputs.
 //
-// Common practice in field programmes and in Canadian working-alone rules (REFERENCES.md, "Working
-// alone, check-out and weather holds"): the party leaves with an expected return; a later, pre-set
+// Common practice in field programmes and in Canadian working-alone rules (docs/references.md, "Work
+// hours and people"): the party leaves with an expected return; a later, pre-set
 // alert time starts the response; a person working alone checks in on a schedule; escalation comes
-// in steps. The figures are the operator's settings (DESIGN.md: overdueGraceMinutes,
+// in steps. The figures are the operator's settings (docs/api.md: overdueGraceMinutes,
 // soloCheckInMinutes, escalateEveryMinutes).
 //
 // A call from the field (a check-in) is word that the party is alive: it clears a missed check-in at

@@ -1,4 +1,4 @@
-// A shift's light check (DESIGN.md, "The light model"): the minutes of the shift spent in bands that
+// A shift's light check (docs/light-model.md): the minutes of the shift spent in bands that
 // do not meet the light its task needs. Pure TypeScript: no framework imports.
 import {
   BANDS_MEETING_REQUIREMENT,

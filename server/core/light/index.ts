@@ -1,4 +1,4 @@
-// The light engine: splits the local days of a site into the bands of DESIGN.md ("The light model")
+// The light engine: splits the local days of a site into the bands of docs/light-model.md
 // using suncalc's position function only. It samples the altitude on one UTC grid over the whole
 // range, refines every highest and lowest point (Brent minimisation), finds every threshold crossing
 // on the monotone pieces between them (Brent's method, to under a second), then cuts the result at

@@ -1,4 +1,4 @@
-// The moon as a light layer (DESIGN.md, "Moon"): for each local day of a site, when the moon is up,
+// The moon as a light layer (docs/api.md, "Light"): for each local day of a site, when the moon is up,
 // its rises and sets, its lit fraction at the middle of the day and its highest altitude.
 // suncalc's moon position is topocentric (it applies the moon's parallax) and adds the same
 // refraction model as for the sun; that refraction is undone exactly (../sun/position.ts), so "up"

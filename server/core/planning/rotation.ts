@@ -1,4 +1,4 @@
-// A rotation's cycle expanded into shifts on the site's wall clock (DESIGN.md, "Rotations"): on days
+// A rotation's cycle expanded into shifts on the site's wall clock (docs/api.md, "Rotations"): on days
 // then off days from `from` to `to`, one shift per working day from startTime to endTime. Wall-clock
 // times hold across clock changes, so the shift is an hour shorter or longer on the night the
 // clocks change; a time in a skipped hour moves to the first minute after the gap; a time in a

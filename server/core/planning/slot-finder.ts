@@ -1,5 +1,5 @@
 // The slot finder: quarter-hour starts at which a task of a given length lies wholly in the light
-// its requirement needs (DESIGN.md: daylight needs `day`, civil needs `day` or `civil`, any is
+// its requirement needs (docs/light-model.md: daylight needs `day`, civil needs `day` or `civil`, any is
 // anywhere) and fits its people's other shifts, blocked spans and work rules. The rules are the
 // planning module's own (conflicts.ts), so a proposed slot never raises a warning the calendar would.
 // Pure TypeScript: plain inputs, plain outputs, no framework or database imports.
@@ -35,7 +35,7 @@ export interface SlotSearchInput {
   notBeforeMs?: number
   /**
    * Minutes of travel each way. Slots are time on site; the whole outing, start − travel to
-   * end + travel, must lie in the light (DESIGN.md, "Travel"). `days` must then reach far enough
+   * end + travel, must lie in the light (docs/api.md, "Travel, weather holds and the field"). `days` must then reach far enough
    * before the first and after the last local day for the trip.
    */
   travelMinutes?: number

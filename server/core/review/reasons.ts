@@ -1,4 +1,4 @@
-// Why a shift goes to safety review (DESIGN.md, "Review: reasons and decisions"): its light, the cold
+// Why a shift goes to safety review (docs/api.md, "Review"): its light, the cold
 // it meets, one person alone in the dark, or its length. Pure TypeScript: no framework, database or
 // network imports; the shift services load the inputs and store the result on the shift.
 import type { LightRequirement } from '../../../shared/light'

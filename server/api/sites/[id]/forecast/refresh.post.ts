@@ -8,7 +8,7 @@ export default defineEventHandler(async (event) => {
   const site = requireSite(id)
   const db = useDB()
   const outcome = await refreshSiteForecast(db, site, { ...readForecastSettings(), actorId: actor.id })
-  // new cold figures may add or drop a review reason (DESIGN.md: cold)
+  // new cold figures may add or drop a review reason (docs/api.md: cold)
   if (outcome.refreshed) reassessSiteReviewReasons(db, site.id)
   return { siteId: site.id, ...outcome, forecast: loadSiteForecast(db, site.id, nowMs()) }
 })
