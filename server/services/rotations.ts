@@ -6,7 +6,7 @@ import { z } from 'zod'
 import type { User } from '#auth-utils'
 import { rotations, shiftAssignees, shifts, sites, type Rotation, type Shift, type Site } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
-import { LightRequirementSchema, LocalDateSchema, TravelMinutesSchema } from '../utils/validation'
+import { LightRequirementSchema, LocalDateSchema, TravelMinutesSchema, singleLineText } from '../utils/validation'
 import { notFound } from '../utils/errors'
 import { computeOutingWindow } from '../core/light/check'
 import { formatZonedIso, localMidnightMs } from '../core/time/zoned'
@@ -35,7 +35,7 @@ const AssigneeIdsSchema = z.array(z.number({ error: 'expected a person id' }).in
 /** POST /api/rotations (and its preview): the cycle, the task and the people. */
 export const RotationBodySchema = z.object({
   siteId: z.number({ error: 'expected a site id' }).int().positive(),
-  title: z.string({ error: 'required' }).trim().min(1, 'required').max(200),
+  title: singleLineText(200),
   light: LightRequirementSchema,
   from: LocalDateSchema,
   to: LocalDateSchema,
@@ -55,7 +55,7 @@ export type RotationInput = z.output<typeof RotationBodySchema>
 /** PATCH /api/rotations/:id: what changes, for its shifts on and after fromDate. */
 export const RotationPatchSchema = z.object({
   fromDate: LocalDateSchema,
-  title: z.string().trim().min(1, 'required').max(200).optional(),
+  title: singleLineText(200).optional(),
   light: LightRequirementSchema.optional(),
   startTime: TimeOfDaySchema.optional(),
   endTime: TimeOfDaySchema.optional(),
