@@ -1,7 +1,8 @@
 import { computeLightDays } from '../core/light/index'
+import { attachMoonToDays, type MoonDay } from '../core/light/moon'
 import type { LightDay } from '../../shared/light'
 
-const cache = createReplyCache<{ latitude: number, longitude: number, timezone: string, days: LightDay[] }>(300)
+const cache = createReplyCache<{ latitude: number, longitude: number, timezone: string, days: (LightDay & { moon: MoonDay })[] }>(300)
 
 export default defineEventHandler(async (event) => {
   await requireRole(event)
@@ -12,6 +13,6 @@ export default defineEventHandler(async (event) => {
     latitude: q.lat,
     longitude: q.lon,
     timezone: q.tz,
-    days: computeLightDays({ latitude: q.lat, longitude: q.lon, timezone: q.tz, from: q.from, to: q.to })
+    days: attachMoonToDays(computeLightDays({ latitude: q.lat, longitude: q.lon, timezone: q.tz, from: q.from, to: q.to }), { latitude: q.lat, longitude: q.lon, timezone: q.tz })
   })))
 })
