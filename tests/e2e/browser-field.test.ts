@@ -3,12 +3,13 @@
 // board shows them overdue in the strongest style; a check-in from the phone clears it. Time moves by
 // restarting the server with its test clock later (same database, same port) and moving the page's
 // clock with it. Screenshots are kept under test-results/screenshots.
+import { resolve } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
 import { startMailSink } from '../../scripts/mail-sink.mjs'
 import { signedInClient, startAppServer, type AppServer } from '../support/app-server'
 import { TEST_CLOCK } from '../support/clock'
-import { keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
+import { ARTEFACTS_DIR, keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
 
 const PHONE = { width: 390, height: 844 }
 const MIN = 60_000
@@ -54,7 +55,7 @@ describe('a lone worker checks out on a phone and is not back in time', () => {
     expect((await coordinator.patch('/api/settings/field', { overdueGraceMinutes: 30, soloCheckInMinutes: 240 })).status).toBe(200)
 
     const crew = await phonePage(first, 'crew@gloamline.test')
-    const buttons = crew.getByTestId(`field-buttons-${id}`)
+    const buttons = crew.getByTestId(`field-buttons-${id}`).first()
     await buttons.waitFor()
     expect(await buttons.getByTestId('field-outing').textContent()).toMatch(/leave \d\d:\d\d, on site \d\d:\d\d–\d\d:\d\d, back \d\d:\d\d/)
     const leave = buttons.getByTestId('field-depart')
@@ -113,4 +114,45 @@ describe('a lone worker checks out on a phone and is not back in time', () => {
     await keepScreenshot(safety, 'field-board-cleared-phone')
     await safety.context().close()
   }, 120_000)
+})
+
+describe('a weather hold on a crew member\'s phone, in their own units', () => {
+  it('shows the operator\'s level, the figure in °F for an imperial reader, the advice and the deference line', async () => {
+    const server = await startAppServer({ env: { ...ENV, FIELD_ALERT_TIMER: 'off' }, clockStart: iso(T0) })
+    servers.push(server)
+    const coordinator = await signedInClient(server, 'coordinator@gloamline.test')
+    const people = (await coordinator.get('/api/people')).body as { id: number, email: string }[]
+    const site = ((await coordinator.get('/api/sites')).body as { id: number }[])[0]!
+    const crewId = people.find(p => p.email === 'crew@gloamline.test')!.id
+    const levels = [{ name: 'Stay close', windChillC: -30, advice: 'Keep within 1 km of the hut; radio every 30 minutes.' }]
+    expect((await coordinator.patch('/api/settings/holds', { levels })).status).toBe(200)
+    const shift = await coordinator.post('/api/shifts', { siteId: site.id, title: 'Snow pit profile', start: iso(T0 + 60 * MIN), end: iso(T0 + 150 * MIN), light: 'any', assigneeIds: [crewId], travelMinutes: 20 })
+    const id = shift.body.id as number
+    // a reading relayed from the field for the hour on site: −25 °C in 30 km/h, wind chill −39 °C (ECCC chart, memory; the 2001 formula gives −39.1)
+    expect((await coordinator.post(`/api/sites/${site.id}/observations`, { at: iso(T0 + 90 * MIN), temperature: -25, wind: 30, units: 'metric' })).status).toBe(201)
+    const crewApi = await signedInClient(server, 'crew@gloamline.test')
+    expect((await crewApi.patch('/api/me/preferences', { units: 'imperial' })).body.units).toBe('imperial')
+
+    const crew = await phonePage(server, 'crew@gloamline.test')
+    // the shift shows as the next shift and in today's list: the first card is enough
+    const hold = crew.getByTestId(`field-buttons-${id}`).first().getByTestId('weather-hold')
+    await hold.waitFor()
+    const text = (await hold.textContent())!.replace(/\s+/g, ' ')
+    expect(text).toContain('Weather hold: Stay close')
+    // −39 °C is −38 °F (−38.2)
+    expect(text).toContain('Wind chill −38 °F (this level: −22 °F or colder)')
+    expect(text).toContain('Keep within 1 km of the hut')
+    expect(text).toContain('your operator\'s')
+    await keepScreenshot(crew, 'field-crew-hold-imperial-phone')
+    await crew.getByTestId(`field-buttons-${id}`).first().screenshot({ path: resolve(ARTEFACTS_DIR, 'field-crew-hold-card.png') })
+    await crew.context().close()
+
+    const safety = await phonePage(server, 'safety@gloamline.test', 'dark')
+    await safety.goto(`${server.url}/field`)
+    await safety.getByTestId('holds-settings').locator('summary').click()
+    await safety.getByTestId('hold-level-0').waitFor()
+    expect(await safety.getByTestId('hold-level-0').locator('input').first().inputValue()).toBe('Stay close')
+    await keepScreenshot(safety, 'field-holds-editor-phone-dark')
+    await safety.context().close()
+  }, 90_000)
 })
