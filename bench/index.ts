@@ -8,6 +8,7 @@ const BENCHES: [file: string, exportName: string][] = [
   ['feed.bench.ts', 'runFeedBench'],
   ['planning.bench.ts', 'runPlanningBench'],
   ['outlook.bench.ts', 'runOutlookBench'],
+  ['moon.bench.ts', 'runMoonBench'],
   ['rotations.bench.ts', 'runRotationsBench']
 ]
 

@@ -12,13 +12,17 @@ import { formatZonedIso, localMidnightMs } from '../time/zoned'
 export const MOON_HORIZON_DEG = -0.833
 
 const MINUTE_MS = 60_000
-// The moon's altitude changes by at most ~15° an hour and has one highest and one lowest point per
-// ~24.8 h; a 20-minute grid shows each of them as a local extreme of the samples. Each is refined, and
-// crossings are searched only on the monotone pieces between them, so a shallow dip past the horizon
-// between two samples is still found.
-const GRID_STEP_MS = 20 * MINUTE_MS
+// The moon's altitude has one highest and one lowest point per ~24.8 h, hours apart; an hourly grid
+// shows each of them as a local extreme of the samples. Crossings are searched only on the monotone
+// pieces between those extremes, so a shallow dip past the horizon between two samples is still found.
+const GRID_STEP_MS = 60 * MINUTE_MS
 const ROOT_TOLERANCE_MS = 1_000
-const EXTREMUM_TOLERANCE_MS = 5_000
+const EXTREMUM_TOLERANCE_MS = 30_000
+// Over the hour either side of a sampled extreme the true extreme can lie at most ~3.1° beyond it
+// (altitude's second derivative ≤ 90° × (15°/h in radians)² ≈ 6.2°/h², times (1 h)² / 2). Extremes
+// nearer the horizon than this are refined exactly (a crossing may hide there); the others only need
+// the day's highest altitude, which a parabola through the three samples gives to ~0.01°.
+const REFINE_MARGIN_DEG = 4
 // Local dates allowed in one call (a year and a bit, as the light routes).
 const MAX_MOON_DAYS = 800
 
@@ -80,6 +84,20 @@ function roundTo(value: number, digits: number): number {
   return Math.round(value * f) / f
 }
 
+// Brent's minimisation near the horizon, else the vertex of the parabola through the three samples.
+function locateExtremum(alt: (ms: number) => number, t0: number, t1: number, t2: number, a0: number, a1: number, a2: number): { x: number, alt: number } {
+  if (Math.abs(a1 - MOON_HORIZON_DEG) < REFINE_MARGIN_DEG) {
+    const sign = a1 >= a0 ? -1 : 1
+    const best = minimizeBrent(ms => sign * alt(ms), t0, t2, t1, sign * a1, EXTREMUM_TOLERANCE_MS, 60, sign * a0, sign * a2)
+    return { x: best.x, alt: sign * best.fx }
+  }
+  const h = t1 - t0
+  const curvature = a0 - 2 * a1 + a2
+  if (curvature === 0) return { x: t1, alt: a1 }
+  const offset = (h * (a0 - a2)) / (2 * curvature)
+  return { x: t1 + offset, alt: a1 - ((a0 - a2) * (a0 - a2)) / (8 * curvature) }
+}
+
 interface MoonTrace {
   /** Sample instants and altitudes in time order, with every refined extremum: monotone between neighbours. */
   times: number[]
@@ -102,10 +120,9 @@ function traceMoon(latitude: number, longitude: number, fromMs: number, toMs: nu
     const here = gridAlts[i]!
     const next = gridAlts[i + 1]
     if (next !== undefined && ((here >= prev && here >= next) || (here <= prev && here <= next))) {
-      // a highest (or lowest) sample: refine the true extremum between its neighbours
-      const sign = here >= prev ? -1 : 1
-      const best = minimizeBrent(ms => sign * alt(ms), grid[i - 1]!, grid[i + 1]!, grid[i]!, sign * here, EXTREMUM_TOLERANCE_MS, 60, sign * prev, sign * next)
-      const [a, b] = best.x < grid[i]! ? [[best.x, sign * best.fx], [grid[i]!, here]] : [[grid[i]!, here], [best.x, sign * best.fx]]
+      // a highest (or lowest) sample: the true extremum between its neighbours
+      const best = locateExtremum(alt, grid[i - 1]!, grid[i]!, grid[i + 1]!, prev, here, next)
+      const [a, b] = best.x < grid[i]! ? [[best.x, best.alt], [grid[i]!, here]] : [[grid[i]!, here], [best.x, best.alt]]
       times.push(a[0]!, b[0]!)
       alts.push(a[1]!, b[1]!)
     } else {
