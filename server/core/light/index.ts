@@ -556,19 +556,25 @@ export function computeLightDaysMs(input: LightDaysInput, options: { maxDays?: n
  */
 export function computeLightDays(input: LightDaysInput): LightDay[] {
   const { days, timeline } = computeDaysWithTimeline(input, MAX_LIGHT_RANGE_DAYS)
-  return days.map(day => formatLightDay(day, timeline))
+  // each day starts where the one before ended: its first instant is formatted once for both
+  const shared = { ms: NaN, text: '' }
+  return days.map(day => formatLightDay(day, timeline, shared))
 }
 
 // One day with ISO strings; each boundary is formatted once and shared by the periods and events.
-function formatLightDay(day: LightDayMs, timeline: ZoneTimeline): LightDay {
+// Instants are formatted in time order (the formatter keeps the last date's text while the date holds).
+function formatLightDay(day: LightDayMs, timeline: ZoneTimeline, shared: { ms: number, text: string }): LightDay {
   const periods = new Array<LightDay['periods'][number]>(day.periods.length)
-  let start = formatWithTimeline(timeline, day.startMs)
+  let start = shared.ms === day.startMs ? shared.text : formatWithTimeline(timeline, day.startMs)
+  const solarNoon = formatWithTimeline(timeline, day.solarNoonMs)
   for (let i = 0; i < day.periods.length; i++) {
     const p = day.periods[i]!
     const end = formatWithTimeline(timeline, p.endMs)
     periods[i] = { kind: p.kind, start, end }
     start = end
   }
+  shared.ms = day.periods[day.periods.length - 1]!.endMs
+  shared.text = start
   const events = day.events.map((e) => {
     const period = day.periods.find(p => p.startMs === e.atMs)
     const at = period ? periods[day.periods.indexOf(period)]!.start : formatWithTimeline(timeline, e.atMs)
@@ -578,7 +584,7 @@ function formatLightDay(day: LightDayMs, timeline: ZoneTimeline): LightDay {
     date: day.date,
     periods,
     events,
-    solarNoon: formatWithTimeline(timeline, day.solarNoonMs),
+    solarNoon,
     maxAltitude: day.maxAltitude,
     minAltitude: day.minAltitude,
     daylightMinutes: day.daylightMinutes,

@@ -28,6 +28,7 @@ const NODE_STEP_MS = 2 * DAY_MS
 // Roots and extremes are settled to within this (the reported instants are whole seconds).
 const TIME_TOLERANCE_MS = 20
 const MAX_NEWTON_STEPS = 8
+const EXTREMUM_LAST_STEP_MS = 2_000
 
 function siderealRad(ms: number): number {
   return THETA0_RAD + THETA_RATE_RAD_PER_DAY * (ms / DAY_MS - J2000_DAYS_FROM_EPOCH)
@@ -171,8 +172,9 @@ export class DiurnalCourse {
       const step = this.rate / curvature
       t -= step
       if (Math.abs(t - passageMs) > 6 * 3_600_000) return null
-      // within 20 ms of the turning point the altitude differs from the last one by under 1e-9°
-      if (Math.abs(step) < TIME_TOLERANCE_MS) return { ms: t, g: this.g }
+      // Newton converges quadratically here: a last step under 2 s leaves the turning point within a
+      // few ms, and the altitude then differs from the last evaluated one by under 1e-9°
+      if (Math.abs(step) < EXTREMUM_LAST_STEP_MS) return { ms: t, g: this.g }
     }
     return null
   }
