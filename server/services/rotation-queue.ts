@@ -1,8 +1,9 @@
 // The review queue's view of rotations: a rotation with two or more shifts in the listed review state
 // is one item, its shifts day by day with the worst day first; a lone shift of a rotation (one that
 // changed after the rotation was decided, say) stays an ordinary item, so it comes back alone.
-import { inArray } from 'drizzle-orm'
-import { rotations, sites, type Rotation, type Shift, type Site } from '../db/schema'
+import { and, eq, gte, inArray, isNull, lte } from 'drizzle-orm'
+import { z } from 'zod'
+import { rotations, shifts, sites, type Rotation, type Shift, type Site } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
 import { formatZonedIso } from '../core/time/zoned'
 import type { ReviewQueueItem } from '../core/review/queue'
@@ -100,4 +101,32 @@ export function buildRotationQueueGroups(db: Pick<AppDatabase, 'select'>, groups
     })
   }
   return out.sort((a, b) => Date.parse(a.firstStart) - Date.parse(b.firstStart))
+}
+
+export const SiteRotationsQuerySchema = z.object({
+  siteId: z.coerce.number({ error: 'siteId must be a site id' }).int().positive('siteId must be a site id'),
+  year: z.coerce.number({ error: 'year must be a year' }).int().min(1901, 'year must be from 1901 to 2149').max(2149, 'year must be from 1901 to 2149')
+})
+
+/** The rotations planned at a site in a year, each with its live shifts (for the year chart). */
+export function listSiteRotations(db: Pick<AppDatabase, 'select'>, siteId: number, year: number) {
+  const site = db.select().from(sites).where(eq(sites.id, siteId)).get()
+  if (!site) return { rotations: [] }
+  const from = `${year}-01-01`
+  const to = `${year}-12-31`
+  const list = db.select().from(rotations).where(and(eq(rotations.siteId, siteId), lte(rotations.fromDate, to), gte(rotations.toDate, from))).all()
+  if (!list.length) return { rotations: [] }
+  const rows = db.select().from(shifts).where(and(inArray(shifts.rotationId, list.map(r => r.id)), isNull(shifts.cancelledAt))).orderBy(shifts.startAt).all()
+  return {
+    rotations: list.map(r => ({
+      ...describeRotation(r, site),
+      shifts: rows.filter(s => s.rotationId === r.id).map(s => ({
+        id: s.id,
+        start: formatZonedIso(s.startAt.getTime(), site.timezone),
+        end: formatZonedIso(s.endAt.getTime(), site.timezone),
+        minutesBelow: s.minutesBelow,
+        reviewState: s.reviewState
+      }))
+    }))
+  }
 }

@@ -72,6 +72,7 @@ const ACCESS: Record<string, Role[] | 'public'> = {
   'rotations/index.post': ['coordinator'],
   'rotations/preview.post': ['coordinator'],
   'rotations/copy-week.post': ['coordinator'],
+  'rotations/index.get': ['coordinator', 'safety'],
   'rotations/[id].get': ['coordinator', 'safety'],
   'rotations/[id].patch': ['coordinator'],
   'rotations/[id].delete': ['coordinator'],
