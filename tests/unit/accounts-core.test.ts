@@ -70,7 +70,7 @@ describe('sealed mail links', () => {
     expect(sealMailLink(link, SECRET)).not.toBe(sealed)
     expect(() => openMailLink(sealed, `${SECRET}-other`)).toThrow()
     const raw = Buffer.from(sealed, 'base64url')
-    raw[raw.length - 1] ^= 1
+    raw.writeUInt8(raw.readUInt8(raw.length - 1) ^ 1, raw.length - 1)
     expect(() => openMailLink(raw.toString('base64url'), SECRET)).toThrow()
   })
 
