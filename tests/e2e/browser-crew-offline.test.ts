@@ -71,6 +71,10 @@ async function checkOfflineHome(offline: Page) {
     const shown = await panel.locator('[data-testid^="crew-shift-"]').evaluateAll(els => els.map(e => e.getAttribute('data-testid')))
     expect(shown).toEqual(tomorrow.shifts.map((s: any) => `crew-shift-${s.id}`))
   }
+  await offline.getByTestId('crew-day-tomorrow').first().scrollIntoViewIfNeeded()
+  await offline.screenshot({ path: `${ARTEFACTS_DIR}/crew-offline-phone-dark-tomorrow.png` })
+  await offline.getByTestId('crew-next').getByTestId('crew-moon').scrollIntoViewIfNeeded()
+  await offline.screenshot({ path: `${ARTEFACTS_DIR}/crew-offline-phone-dark-next-light.png` })
   // the moon's words follow the contract's form, e.g. "Moon up 14:10–02:30, 92 % lit"
   expect(await offline.getByTestId('crew-moon').first().textContent()).toMatch(/Moon (up .+|below the horizon all day), \d{1,3} % lit/)
   // cautions once for the screen, not inside each shift
