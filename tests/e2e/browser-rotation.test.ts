@@ -8,7 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Body, Equator, Horizon, Observer } from 'astronomy-engine'
 import type { Browser } from 'playwright-core'
 import { signedInClient, startAppServer, type ApiClient, type AppServer } from '../support/app-server'
-import { keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
+import { ARTEFACTS_DIR, keepScreenshot, launchBrowser, matchServerClock, signInThroughPage } from '../support/browser'
 
 const SITE = { name: 'Sorgneset Test Station', latitude: 76.45, longitude: 16.6, timezone: 'Arctic/Longyearbyen' }
 let server: AppServer
@@ -147,6 +147,8 @@ describe('a rotation planned, previewed and reviewed in the browser', () => {
       .toContain(`1 rotation planned: 24 shifts, ${flagged.length} short of the light they need`)
     await page.getByTestId('year-chart').scrollIntoViewIfNeeded()
     await keepScreenshot(page, 'rotation-year-chart-desk')
+    await page.getByTestId('horizon-chart').scrollIntoViewIfNeeded()
+    await page.getByTestId('horizon-chart').screenshot({ path: `${ARTEFACTS_DIR}/horizon-chart-desk.png` })
     await page.close()
     await safetyPage.close()
   }, 90_000)
