@@ -63,8 +63,8 @@ export interface ShiftDraft {
 export interface ShiftCheckReply {
   travelMinutes?: number
   // what would send the draft to safety review, as the write will store it
-  reviewReasons?: ShiftItem['reviewReasons']
-  reviewReasonDetails?: ShiftItem['reviewReasonDetails']
+  reviewReasons?: ShiftReply['reviewReasons']
+  reviewReasonDetails?: ShiftReply['reviewReasonDetails']
   lightCheck: { requirement: LightRequirement, minutesBelow: number, flagged: boolean, checkedFrom?: string, checkedTo?: string }
   bands: { kind: BandKind, start: string, end: string }[]
   conflicts: ShiftConflict[]
