@@ -4,9 +4,12 @@ import { localDateOf } from '../server/core/time/zoned'
 import { addDays } from '../shared/format'
 import { people, sites } from '../server/db/schema'
 
-// A synthetic load scenario (benchmarks only): 6 sites, 50 people, a busy calendar week of 592
-// shifts (two people each) and other shifts around it: 1,408 over half a year (2,000 in all, a young
-// database), or 99,408 over five years before it (100,000 in all, the same week in year five).
+// A synthetic load scenario (benchmarks only): 6 sites, 200 crew, a busy calendar week of 592 shifts
+// (two people each) and other shifts before it: 1,408 over half a year (2,000 in all, a young
+// database), or 99,408 over five years (100,000 in all, the same week in year five). A plannable
+// roster: each day's shifts start between 05:00 and 20:00 UTC, and crew member k works only the
+// day's slot k / 2, so nobody works twice a day and the same slot on the next day is 24 h later.
+const CREW = 200
 const SITES = [
   { name: 'Load site 78N', latitude: 78.22, longitude: 15.63, timezone: 'Arctic/Longyearbyen' },
   { name: 'Load site 69N', latitude: 69.65, longitude: 18.96, timezone: 'Europe/Oslo' },
@@ -25,7 +28,7 @@ export function seedLoadScenario(db: AppDatabase, passwordHash: string, now: num
   const total = options.totalShifts ?? 2_000
   const today = localDateOf(now, 'UTC')
   const weekStart = Date.parse(`${today}T00:00:00Z`)
-  const personRows = db.insert(people).values(Array.from({ length: 50 }, (_, i) => ({
+  const personRows = db.insert(people).values(Array.from({ length: CREW + 4 }, (_, i) => ({
     name: `Load Person ${i + 1}`, email: `load${i + 1}@load.test`, role: i === 0 ? 'coordinator' as const : (i < 4 ? 'safety' as const : 'crew' as const), passwordHash
   }))).returning().all()
   const siteRows = db.insert(sites).values(SITES).returning().all()
@@ -34,23 +37,30 @@ export function seedLoadScenario(db: AppDatabase, passwordHash: string, now: num
     values (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`)
   const insertAssignee = sqlite.prepare('insert into shift_assignees (shift_id, person_id) values (?, ?)')
   const ids: number[] = []
-  const add = (i: number, startMs: number) => {
-    const site = siteRows[i % siteRows.length]!
-    const endMs = startMs + (4 + (i % 5)) * 3_600_000
-    const light = LIGHTS[i % 3]!
-    const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: light })
-    const id = Number(insertShift.run(site.id, `Load shift ${i + 1}`, startMs, endMs, light, check.minutesBelow, check.flagged ? 1 : 0, check.flagged ? 'pending' : 'not-needed', now, now).lastInsertRowid)
-    insertAssignee.run(id, personRows[4 + ((i * 2) % 46)]!.id)
-    insertAssignee.run(id, personRows[4 + ((i * 2 + 1) % 46)]!.id)
-    return id
+  let serial = 0
+  // `count` shifts on the day starting at dayMs, in slots from 05:00 to 20:00 UTC
+  const addDay = (dayMs: number, count: number) => {
+    for (let slot = 0; slot < count; slot++) {
+      const i = serial++
+      const site = siteRows[i % siteRows.length]!
+      const startMs = dayMs + 5 * 3_600_000 + Math.floor(slot * 15 * 3_600_000 / count / QUARTER_MS) * QUARTER_MS
+      const endMs = startMs + (4 + (i % 5)) * 3_600_000
+      const light = LIGHTS[i % 3]!
+      const check = checkShiftLight({ latitude: site.latitude, longitude: site.longitude, startMs, endMs, requirement: light })
+      const id = Number(insertShift.run(site.id, `Load shift ${i + 1}`, startMs, endMs, light, check.minutesBelow, check.flagged ? 1 : 0, check.flagged ? 'pending' : 'not-needed', now, now).lastInsertRowid)
+      insertAssignee.run(id, personRows[4 + ((slot * 2) % CREW)]!.id)
+      insertAssignee.run(id, personRows[4 + ((slot * 2 + 1) % CREW)]!.id)
+      ids.push(id)
+    }
   }
   const others = total - WEEK_SHIFTS
   sqlite.transaction(() => {
-    // the week: 592 shifts spread over its 7 days on the quarter hour
-    for (let i = 0; i < WEEK_SHIFTS; i++) ids.push(add(i, weekStart + Math.floor(i * (7 * DAY_MS - 9 * 3_600_000) / WEEK_SHIFTS / QUARTER_MS) * QUARTER_MS))
-    // the rest before it (five years, or half a year for the young database), none inside the week
-    const spanMs = (total > 10_000 ? 5 * 365 : 180) * DAY_MS
-    for (let k = 0; k < others; k++) add(WEEK_SHIFTS + k, weekStart - spanMs + Math.floor(k * (spanMs - DAY_MS) / others / QUARTER_MS) * QUARTER_MS)
+    // the week: 592 shifts over its 7 days (85 or 84 a day)
+    for (let d = 0; d < 7; d++) addDay(weekStart + d * DAY_MS, Math.floor((WEEK_SHIFTS * (d + 1)) / 7) - Math.floor((WEEK_SHIFTS * d) / 7))
+    // the rest before it: five years for the large database, half a year for the young one
+    const days = total > 10_000 ? 5 * 365 : 180
+    // (ending a clear day before the week, so that the week holds the same shifts in both)
+    for (let d = 0; d < days; d++) addDay(weekStart - (days - d + 1) * DAY_MS, Math.floor((others * (d + 1)) / days) - Math.floor((others * d) / days))
   })()
   return {
     shifts: total,

@@ -17,7 +17,16 @@ export function openDatabase(path: string, options: { readonly?: boolean } = {})
   if (!options.readonly) sqlite.pragma('journal_mode = WAL')
   sqlite.pragma('foreign_keys = ON')
   sqlite.pragma('busy_timeout = 5000')
-  return drizzle(sqlite, { schema }) as AppDatabase
+  const db = drizzle(sqlite, { schema }) as AppDatabase
+  if (!options.readonly) {
+    // Transactions take the write lock as they begin (BEGIN IMMEDIATE). With several processes on one
+    // file (npm start's workers), a deferred transaction that read first could find its snapshot stale
+    // at its first write (SQLITE_BUSY_SNAPSHOT), which busy_timeout does not wait out; taking the lock
+    // at the start turns that into an ordinary wait.
+    const transaction = db.transaction.bind(db)
+    db.transaction = ((fn, config) => transaction(fn, { behavior: 'immediate', ...config })) as AppDatabase['transaction']
+  }
+  return db
 }
 
 /** Finds the migrations folder: env override, next to the built server, then the source tree. */
