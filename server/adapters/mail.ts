@@ -2,7 +2,7 @@
 // to the local sink that `npm start` runs (scripts/mail-sink.mjs). Everything else queues mail in
 // the outbox (server/utils/outbox.ts), which calls sendMailMessage and records the outcome.
 import { createTransport, type Transporter } from 'nodemailer'
-import { useAppConfig } from '../utils/config'
+import { useServerConfig } from '../utils/config'
 
 export interface MailContent {
   subject: string
@@ -23,7 +23,7 @@ const transports = new Map<string, Transporter>()
 
 /** The SMTP server mail goes to: SMTP_URL, or the local sink. */
 export function resolveSmtpUrl(): string {
-  return useAppConfig().smtpUrl
+  return useServerConfig().smtpUrl
 }
 
 function transportFor(url: string): Transporter {
@@ -38,7 +38,7 @@ function transportFor(url: string): Transporter {
 /** Sends one message with its HTML and plain-text parts; rejects when the SMTP server does not accept it. */
 export async function sendMailMessage(mail: OutgoingMail): Promise<{ messageId: string }> {
   const info = await transportFor(resolveSmtpUrl()).sendMail({
-    from: useAppConfig().mailFrom,
+    from: useServerConfig().mailFrom,
     to: mail.to,
     subject: mail.subject,
     text: mail.text,

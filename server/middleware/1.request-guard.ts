@@ -38,7 +38,7 @@ export function isForeignWrite(event: H3Event): boolean {
   const origin = getRequestHeader(event, 'origin')
   if (origin === undefined) return false
   const originHost = hostOf(origin)
-  const own = [getRequestHeader(event, 'host')?.toLowerCase(), hostOf(useAppConfig().publicBaseUrl)]
+  const own = [getRequestHeader(event, 'host')?.toLowerCase(), hostOf(useServerConfig().publicBaseUrl)]
   return !originHost || !own.includes(originHost)
 }
 

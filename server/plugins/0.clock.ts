@@ -3,7 +3,7 @@
 import { runningClockFrom, setClock } from '../core/time/clock'
 
 export default defineNitroPlugin(() => {
-  const start = useAppConfig().testClockStart
+  const start = useServerConfig().testClockStart
   if (start === null) return
   if (!Number.isFinite(start)) throw new Error('GLOAMLINE_CLOCK_START is not an ISO instant')
   setClock(runningClockFrom(start))

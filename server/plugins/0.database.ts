@@ -1,5 +1,5 @@
 // Applies the drizzle-kit migrations at start-up, in every environment, before any request.
-import { useAppConfig } from '../utils/config'
+import { useServerConfig } from '../utils/config'
 
 export default defineNitroPlugin(() => {
   if (isDatabaseReadOnly()) {
@@ -8,5 +8,5 @@ export default defineNitroPlugin(() => {
   }
   const started = performance.now()
   applyMigrations(useDB())
-  console.info(`[gloamline] database ready (${useAppConfig().databasePath}, migrations in ${Math.round(performance.now() - started)} ms)`)
+  console.info(`[gloamline] database ready (${useServerConfig().databasePath}, migrations in ${Math.round(performance.now() - started)} ms)`)
 })

@@ -5,7 +5,7 @@
 // token-like path segment); bodies (passwords) are never logged. Before Nitro's own handler prints an
 // unexpected error with the request URL, that URL is masked the same way.
 import type { H3Event } from 'h3'
-import { useAppConfig } from '../utils/config'
+import { useServerConfig } from '../utils/config'
 
 const TOKEN_PATH = /\/(feed|welcome|invitations|reset)\/[^/?]+/gi
 // a path segment that looks like a secret: 32 or more URL-safe characters
@@ -31,7 +31,7 @@ function writeLine(event: H3Event, status: number, error?: string) {
 }
 
 export default defineNitroPlugin((nitroApp) => {
-  const enabled = useAppConfig().requestLog
+  const enabled = useServerConfig().requestLog
   nitroApp.hooks.hook('request', (event) => {
     event.context.startedAt = performance.now()
   })

@@ -1,5 +1,5 @@
 import { seedReady } from './1.seed'
-import { useAppConfig } from '../utils/config'
+import { useServerConfig } from '../utils/config'
 
 // The field alert check: every FIELD_ALERT_INTERVAL_MS (30 s by default, never more than a minute),
 // whether or not anyone is signed in, queue the current alert step of every overdue party or missed
@@ -8,7 +8,7 @@ import { useAppConfig } from '../utils/config'
 // second process or a restarted one finds it and queues nothing; sending claims a message under a
 // lease first, so only one process sends it. FIELD_ALERT_TIMER=off disables it.
 export default defineNitroPlugin((nitroApp) => {
-  const config = useAppConfig()
+  const config = useServerConfig()
   if (!config.fieldAlertTimer) return
   let running = false
 

@@ -3,12 +3,12 @@
 // once shortly after start (FORECAST_REFRESH_DELAY_MS, default 5 s) and then every N minutes; a failed
 // fetch is stored with its reason and the last good forecast stays.
 import { seedReady } from './1.seed'
-import { useAppConfig } from '../utils/config'
+import { useServerConfig } from '../utils/config'
 
 const MIN_INTERVAL_MINUTES = 5
 
 export default defineNitroPlugin((nitroApp) => {
-  const config = useAppConfig()
+  const config = useServerConfig()
   const minutes = config.forecastRefreshMinutes
   // one worker of a cluster fetches: the others would store the same forecasts again
   if (minutes === null || !config.timerWorker) return

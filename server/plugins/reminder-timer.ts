@@ -1,13 +1,13 @@
 import { seedReady } from './1.seed'
 import { closeMailTransports } from '../adapters/mail'
-import { useAppConfig } from '../utils/config'
+import { useServerConfig } from '../utils/config'
 
 // Scheduled sending: once a minute, queue the reminders that are due (each site's reminderHour in its
 // own zone has come, for the next local day) and send whatever the outbox has due, including failed
 // sends whose back-off has passed. REMINDER_TIMER=off disables it (tests that do not test it);
 // REMINDER_TIMER_INTERVAL_MS shortens the minute for the tests that do.
 export default defineNitroPlugin((nitroApp) => {
-  const config = useAppConfig()
+  const config = useServerConfig()
   // one worker of a cluster runs it (the outbox's keys and sending lease would make more safe, but idle)
   if (!config.reminderTimer || !config.timerWorker) return
   const intervalMs = config.reminderIntervalMs

@@ -20,7 +20,7 @@ import { addDays } from '../../shared/format'
 import { REVIEW_STATE_WORDS } from '../../shared/review'
 import { localDateOf } from '../core/time/zone-table'
 import type { AppDatabase } from '../utils/db'
-import { useAppConfig } from '../utils/config'
+import { useServerConfig } from '../utils/config'
 import { describeCrewShift } from './crew-day'
 import { computeLightDaysMs } from '../core/light/index'
 import { createSiteBandCutter, loadFeedShifts } from './feed-rows'
@@ -245,7 +245,7 @@ export async function renderPersonFeed(db: AppDatabase, person: Person, options:
 
 /** The server secret feed tokens are derived from: the session password (never stored in the database). */
 export function readFeedSecret(): string {
-  const secret = useAppConfig().sessionPassword
+  const secret = useServerConfig().sessionPassword
   if (!secret || secret.length < 32) throw new Error('NUXT_SESSION_PASSWORD is not set: feed tokens cannot be derived')
   return secret
 }

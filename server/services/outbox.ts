@@ -6,7 +6,7 @@
 import { and, desc, eq, inArray, isNotNull, isNull, lte, or, sql, type SQL } from 'drizzle-orm'
 import { messages, people, type Message } from '../db/schema'
 import type { AppDatabase } from '../utils/db'
-import { useAppConfig } from '../utils/config'
+import { useServerConfig } from '../utils/config'
 import { sendMailMessage, type MailContent, type MailSender } from '../adapters/mail'
 import { nowDate, nowMs as clockNowMs } from '../core/time/clock'
 import { revealMailLink } from './mail-links'
@@ -40,7 +40,7 @@ export interface DeliveryOutcome {
 
 /** The retry base delay, overridable with MAIL_RETRY_BASE_MS (tests use a short one). */
 export function readRetryBaseMs(): number {
-  return useAppConfig().mailRetryBaseMs ?? OUTBOX_RETRY_BASE_MS
+  return useServerConfig().mailRetryBaseMs ?? OUTBOX_RETRY_BASE_MS
 }
 
 /** Delay before attempt n + 1 after n failed attempts: base · 2^(n − 1), capped at one hour. */

@@ -10,7 +10,7 @@ import { COLD_INPUT_LIMITS, COLD_UNITS, type ColdUnits } from '../../shared/cold
 import type { LightPeriodMs } from '../../shared/light'
 import { formatDay, formatLocalTime, formatUtcOffset } from '../../shared/format'
 import type { AppDatabase } from '../utils/db'
-import { useAppConfig, type AppConfig } from '../utils/config'
+import { useServerConfig, type AppConfig } from '../utils/config'
 import { recordAudit } from './audit'
 import { convertFahrenheitToCelsius, convertMphToKmh } from '../core/cold/index'
 import { fetchHourlyForecast, isForecastStale, summariseForecastForWindow, type ForecastHour } from '../adapters/forecast'
@@ -50,7 +50,7 @@ export interface ForecastRefreshOutcome {
 }
 
 /** Where forecasts come from and how long a fetch may take (FORECAST_BASE_URL, FORECAST_TIMEOUT_MS). */
-export function readForecastSettings(config: Pick<AppConfig, 'forecastBaseUrl' | 'forecastTimeoutMs'> = useAppConfig()) {
+export function readForecastSettings(config: Pick<AppConfig, 'forecastBaseUrl' | 'forecastTimeoutMs'> = useServerConfig()) {
   return { baseUrl: config.forecastBaseUrl, timeoutMs: config.forecastTimeoutMs }
 }
 

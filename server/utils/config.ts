@@ -44,13 +44,13 @@ export type AppConfig = ReturnType<typeof readEnv>
 let cached: AppConfig | null = null
 
 /** The server's configuration, read from the environment on first use. */
-export function useAppConfig(): AppConfig {
+export function useServerConfig(): AppConfig {
   if (!cached) cached = readEnv(process.env)
   return cached
 }
 
 /** Forgets the cached configuration (tests that change the environment). */
-export function resetAppConfig() {
+export function resetServerConfig() {
   cached = null
 }
 
@@ -60,7 +60,7 @@ export function resetAppConfig() {
  * otherwise the origin of the request that caused the mail; null when there is neither (the timer).
  */
 export function resolvePublicBaseUrl(event?: H3Event): string | null {
-  const configured = useAppConfig().publicBaseUrl
+  const configured = useServerConfig().publicBaseUrl
   if (configured) return configured
   if (!event) return null
   return getRequestURL(event).origin

@@ -4,7 +4,7 @@ import Database from 'better-sqlite3'
 import { drizzle, type BetterSQLite3Database } from 'drizzle-orm/better-sqlite3'
 import { migrate } from 'drizzle-orm/better-sqlite3/migrator'
 import * as schema from '../db/schema'
-import { useAppConfig } from './config'
+import { useServerConfig } from './config'
 
 export type AppDatabase = BetterSQLite3Database<typeof schema> & { $client: Database.Database }
 
@@ -32,7 +32,7 @@ export function openDatabase(path: string, options: { readonly?: boolean } = {})
 /** Finds the migrations folder: env override, next to the built server, then the source tree. */
 export function findMigrationsDir(): string {
   const candidates = [
-    useAppConfig().migrationsDir,
+    useServerConfig().migrationsDir,
     process.argv[1] ? join(dirname(process.argv[1]), 'drizzle') : undefined,
     resolve('.output/server/drizzle'),
     resolve('drizzle')
@@ -49,12 +49,12 @@ export function applyMigrations(db: AppDatabase, dir = findMigrationsDir()) {
 
 /** True when DATABASE_READ_ONLY=1: a maintenance mode that serves reads and answers writes with 503. */
 export function isDatabaseReadOnly() {
-  return useAppConfig().databaseReadOnly
+  return useServerConfig().databaseReadOnly
 }
 
 /** The process-wide database handle, opened on first use from DATABASE_PATH. */
 export function useDB(): AppDatabase {
-  if (!current) current = openDatabase(useAppConfig().databasePath, { readonly: isDatabaseReadOnly() })
+  if (!current) current = openDatabase(useServerConfig().databasePath, { readonly: isDatabaseReadOnly() })
   return current
 }
 

@@ -5,7 +5,7 @@ import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
 import { startMailSink } from '../../scripts/mail-sink.mjs'
 import { closeMailTransports, resolveSmtpUrl, sendMailMessage } from '../../server/adapters/mail'
 import { renderInvitationMail } from '../../emails/invitation'
-import { resetAppConfig } from '../../server/utils/config'
+import { resetServerConfig } from '../../server/utils/config'
 
 interface SinkMessage { to: string[], from: string, subject: string, text: string, html: string }
 let sink: { url: string, port: number, messages: SinkMessage[], close: () => Promise<void> }
@@ -17,7 +17,7 @@ beforeAll(async () => {
 afterEach(() => {
   closeMailTransports()
   process.env.SMTP_URL = saved
-  resetAppConfig()
+  resetServerConfig()
 })
 afterAll(async () => {
   await sink.close()
@@ -36,7 +36,7 @@ function closedPort(): Promise<number> {
 describe('sending mail over SMTP', () => {
   it('delivers a message with both a plain-text and an HTML part to SMTP_URL', async () => {
     process.env.SMTP_URL = sink.url
-    resetAppConfig()
+    resetServerConfig()
     const mail = renderInvitationMail({ personName: 'Liv Aasen', inviterName: 'Ingrid Halvorsen', roleWords: 'a crew member', link: 'http://127.0.0.1:3000/welcome?token=abc', expiresText: 'Fri 15 Jan 18:00 UTC' })
     const info = await sendMailMessage({ to: 'liv.aasen@northwake.test', ...mail })
     expect(info.messageId).toMatch(/@/)
@@ -50,7 +50,7 @@ describe('sending mail over SMTP', () => {
 
   it('keeps non-ASCII text intact (true minus, middle dot, ø) through MIME encoding', async () => {
     process.env.SMTP_URL = sink.url
-    resetAppConfig()
+    resetServerConfig()
     const subject = 'Tromsø · −27 min since yesterday'
     await sendMailMessage({ to: 'nora.tuktu@northwake.test', subject, text: `Daylight 3 h 5 min (${subject})`, html: `<p>${subject}</p>` })
     const got = sink.messages.at(-1)!
@@ -60,13 +60,13 @@ describe('sending mail over SMTP', () => {
 
   it('rejects when nothing listens at SMTP_URL, so the outbox can record the failure', async () => {
     process.env.SMTP_URL = `smtp://127.0.0.1:${await closedPort()}`
-    resetAppConfig()
+    resetServerConfig()
     await expect(sendMailMessage({ to: 'x@northwake.test', subject: 's', text: 't', html: '<p>t</p>' })).rejects.toMatchObject({ code: expect.stringMatching(/ECONNREFUSED|ESOCKET|ECONNECTION/) })
   })
 
   it('falls back to the local sink port when SMTP_URL is unset', () => {
     delete process.env.SMTP_URL
-    resetAppConfig()
+    resetServerConfig()
     expect(resolveSmtpUrl()).toMatch(/^smtp:\/\/127\.0\.0\.1:\d+$/)
   })
 })
