@@ -48,8 +48,8 @@ describe('the site light page at 78° N', () => {
     const chart = page.getByTestId('year-chart')
     await chart.scrollIntoViewIfNeeded()
     const box = (await chart.boundingBox())!
-    // the chart's viewBox is 786 wide with the days from x = 44 to 774; 26 June is day 177 of 365
-    await chart.click({ position: { x: box.width * ((44 + (176.5 / 365) * 730) / 786), y: box.height / 2 } })
+    // the chart's viewBox is 794 × 492 with one row per day from y = 30 to 468; 26 June is day 177 of 365
+    await chart.click({ position: { x: box.width * (344 / 794), y: box.height * ((30 + (176.5 / 365) * 438) / 492) } })
     await page.mouse.move(box.x + 5, box.y - 40)
     const panel = await page.getByTestId('day-panel').textContent()
     expect(panel).toMatch(/Jun/)

@@ -147,6 +147,7 @@ describe('a rotation planned, previewed and reviewed in the browser', () => {
       .toContain(`1 rotation planned: 24 shifts, ${flagged.length} short of the light they need`)
     await page.getByTestId('year-chart').scrollIntoViewIfNeeded()
     await keepScreenshot(page, 'rotation-year-chart-desk')
+    await page.getByTestId('year-chart').screenshot({ path: `${ARTEFACTS_DIR}/year-chart-desk.png` })
     await page.getByTestId('horizon-chart').scrollIntoViewIfNeeded()
     await page.getByTestId('horizon-chart').screenshot({ path: `${ARTEFACTS_DIR}/horizon-chart-desk.png` })
     await page.close()
