@@ -109,8 +109,8 @@ describe('the calendar feed', () => {
     const { url } = (await crew.get('/api/me/feed')).body
     const events = parseEvents((await fetchFeed(url)).text)
     const status = (id: number) => events.find(e => e.event.uid === `shift-${id}@gloamline`)?.component.getFirstPropertyValue('status')
-    expect(status(created.spring)).toBe('CANCELLED')
-    expect(status(created.autumn)).not.toBe('CANCELLED')
+    expect(status(created.spring!)).toBe('CANCELLED')
+    expect(status(created.autumn!)).not.toBe('CANCELLED')
   })
 
   it('adds sunrise and sunset for the person\'s sites over 14 days when asked, matching astronomy-engine', async () => {
