@@ -141,6 +141,7 @@ export const RECIPES: Record<string, Recipe> = {
     await created(k.clients.coordinator, '/api/shifts', { siteId: k.ids.siteId, title: `Week copy ${k.uniq()}`, light: 'any', start: `${day}T09:00`, end: `${day}T11:00`, assigneeIds: [] })
     return { path: '/api/rotations/copy-week', body: { siteId: k.ids.siteId, weekStart: day, weeks: 1 } }
   },
+  'rotations/index.get': (_, k) => ({ path: '/api/rotations', query: { siteId: String(k.ids.siteId), year: utcDateOf(k.server.clock.now(), 0).slice(0, 4) } }),
   'settings/holds.get': () => ({ path: '/api/settings/holds' }),
   'settings/holds.patch': async (_, k) => ({ path: '/api/settings/holds', body: { levels: (await k.clients.coordinator.get('/api/settings/holds')).body.levels } }),
   'import/shifts/template.get': () => ({ path: '/api/import/shifts/template' }),

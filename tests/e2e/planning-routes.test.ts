@@ -137,7 +137,7 @@ describe('blocked spans (unavailability)', () => {
 describe('work rules', () => {
   it('defaults to 11 h rest (EU Working Time Directive 2003/88/EC, art. 3) and 12 h shifts (common practice)', async () => {
     const reply = await crew.get('/api/settings/work-rules')
-    expect(reply.body).toEqual({ minRestHours: 11, maxShiftHours: 12 })
+    expect(reply.body).toEqual({ minRestHours: 11, maxShiftHours: 12, reviewWindChillC: -27, weeklyLimitHours: null })
   })
 
   it('refuses a negative rest period with a 400 naming minRestHours', async () => {
@@ -149,9 +149,9 @@ describe('work rules', () => {
   it('applies a changed maximum at once', async () => {
     const body = { siteId: ids.camp, title: 'Long haul', start: '2027-10-04T06:00', end: '2027-10-04T16:00', light: 'any', assigneeIds: [] }
     expect((await coordinator.post('/api/shifts/check', body)).body.conflicts).toEqual([])
-    expect((await coordinator.patch('/api/settings/work-rules', { maxShiftHours: 8 })).body).toEqual({ minRestHours: 11, maxShiftHours: 8 })
+    expect((await coordinator.patch('/api/settings/work-rules', { maxShiftHours: 8 })).body).toMatchObject({ minRestHours: 11, maxShiftHours: 8 })
     expect((await coordinator.post('/api/shifts/check', body)).body.conflicts.map((c: any) => c.kind)).toEqual(['long'])
-    expect((await coordinator.patch('/api/settings/work-rules', { maxShiftHours: 12 })).body).toEqual({ minRestHours: 11, maxShiftHours: 12 })
+    expect((await coordinator.patch('/api/settings/work-rules', { maxShiftHours: 12 })).body).toMatchObject({ minRestHours: 11, maxShiftHours: 12 })
   })
 })
 
