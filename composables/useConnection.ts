@@ -1,12 +1,29 @@
-// Whether the browser has a network connection, kept up to date from the online/offline events.
-// On the server (and before the page mounts) it is taken as online. Buttons that need the server
-// read it to say so instead of failing silently.
+// Whether the server can be reached. The browser's own online flag is only a hint: a phone on a camp
+// network whose outside link is down still says it is online. So the state follows what actually
+// happened: a reply from the server (any status) means reachable, a request that got no reply means
+// not, and `probe()` asks the server's health route to find out. Buttons and pages that need the
+// server read `online` to say so instead of failing silently.
 export function useConnection() {
   const online = useState('connection-online', () => true)
+
+  function report(reachable: boolean) {
+    online.value = reachable
+  }
+
+  async function probe() {
+    if (!import.meta.client) return
+    try {
+      await fetch('/health', { cache: 'no-store' })
+      online.value = true
+    } catch {
+      online.value = false
+    }
+  }
+
   if (import.meta.client) {
     onMounted(() => {
-      online.value = navigator.onLine
-      const up = () => { online.value = true }
+      if (!navigator.onLine) online.value = false
+      const up = () => probe()
       const down = () => { online.value = false }
       window.addEventListener('online', up)
       window.addEventListener('offline', down)
@@ -16,5 +33,5 @@ export function useConnection() {
       })
     })
   }
-  return { online }
+  return { online, report, probe }
 }

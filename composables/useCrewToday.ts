@@ -21,14 +21,17 @@ function isUnreachable(error: unknown): boolean {
 export function useCrewToday() {
   const { user } = useUserSession()
   const own = useOwnCopy()
+  const { report } = useConnection()
   return useAsyncData<CrewTodayView>('crew-today', async () => {
     const personId = user.value?.id ?? 0
     try {
       const today = await $fetch<CrewToday>('/api/me/today')
       own.save('crew-today', personId, today.generatedAt, today)
       own.keepHomePage()
+      report(true)
       return { today, asOf: today.generatedAt, offline: false }
     } catch (error) {
+      if (isUnreachable(error)) report(false)
       const copy = isUnreachable(error) ? own.read<CrewToday>('crew-today', personId) : null
       if (!copy) throw error
       return { today: copy.data, asOf: copy.savedAt, offline: true }

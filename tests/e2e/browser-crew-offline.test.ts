@@ -82,6 +82,12 @@ async function checkOfflineHome(offline: Page) {
   // what needs the server says so
   expect(await offline.getByRole('link', { name: /Reminders and calendar/ }).textContent()).toContain('Needs a connection')
   expect(await offline.evaluate(() => document.documentElement.classList.contains('dark'))).toBe(true)
+  expect(await offline.getByTestId('offline-bar').count()).toBe(0)
+  // any other page says it needs the server rather than showing an empty answer as if it were true
+  await offline.getByRole('link', { name: 'Plan', exact: true }).click()
+  await offline.waitForURL(url => url.pathname === '/plan')
+  expect(await offline.getByTestId('offline-bar').textContent()).toContain('this page needs the server')
+  await offline.screenshot({ path: `${ARTEFACTS_DIR}/crew-offline-phone-dark-plan.png` })
 }
 
 describe('the crew home with no connection', () => {
