@@ -102,6 +102,20 @@ describe('the crew home with no connection', () => {
     }
   }, 60_000)
 
+  it('reads at desk size in the light theme too, with the next shift first and the moon in words', async () => {
+    const desk = await browser.newContext({ viewport: { width: 1280, height: 800 }, deviceScaleFactor: 1, colorScheme: 'light' })
+    const deskPage = await desk.newPage()
+    await matchServerClock(deskPage, server)
+    await signInThroughPage(deskPage, server.url, CREW)
+    const next = deskPage.getByTestId('crew-next')
+    await next.waitFor()
+    expect(await next.getByTestId('crew-moon').textContent()).toContain(expected.next.day.moon.words)
+    expect(await deskPage.getByTestId('crew-as-of').textContent()).toMatch(/^\s*As of \w{3} \d{1,2} \w{3} \d{2}:\d{2} UTC/)
+    expect(await deskPage.getByTestId('offline-bar').count()).toBe(0)
+    await keepScreenshot(deskPage, 'crew-home-desk-light')
+    await desk.close()
+  }, 60_000)
+
   it('keeps only the signed-in person\'s own copy, and signing out deletes it and the stored page', async () => {
     const saved = await page.evaluate(() => Object.keys(localStorage).filter(k => k.startsWith('gloamline-own:')).map(k => JSON.parse(localStorage.getItem(k)!)))
     expect(saved).toHaveLength(1)
