@@ -71,11 +71,13 @@ export function buildRotationQueueGroups(db: Pick<AppDatabase, 'select'>, groups
   const siteRows = db.select().from(sites).where(inArray(sites.id, rotationRows.map(r => r.siteId))).all()
   const siteById = new Map(siteRows.map(s => [s.id, s]))
   const out: RotationQueueGroup[] = []
+  const sorted = new Map(rotationRows.map(r => [r.id, [...groups.get(r.id)!].sort(worstFirst)]))
+  // the worst days of every rotation shaped in one call (one read of people, reviews and weather)
+  const byId = new Map(shape([...sorted.values()].flatMap(rows => rows.slice(0, ROTATION_DETAIL_DAYS))).map(item => [item.shift.id, item]))
   for (const rotation of rotationRows) {
     const site = siteById.get(rotation.siteId)!
-    const rows = [...groups.get(rotation.id)!].sort(worstFirst)
+    const rows = sorted.get(rotation.id)!
     const detailed = rows.slice(0, ROTATION_DETAIL_DAYS)
-    const byId = new Map(shape(detailed).map(item => [item.shift.id, item]))
     const first = rows.reduce((min, r) => Math.min(min, r.startAt.getTime()), Infinity)
     out.push({
       rotation: describeRotation(rotation, site),
