@@ -92,7 +92,9 @@ describe('planning on the calendar in the browser', () => {
     const chip = page.locator(`[data-testid="shift-chip"][data-shift-id="${evening.id}"]`)
     await chip.waitFor()
     expect(await chip.getByTestId('light-marker').getAttribute('data-light-state')).toBe('flagged')
-    expect(await chip.textContent()).toContain('Flagged: 3 h below')
+    // the state word (shared/review.ts) and the reason with its figure
+    expect(await chip.textContent()).toContain('Awaiting review: below its light')
+    expect(await chip.getByTestId('review-reasons').textContent()).toContain('3 h below daylight')
     // the dark of the night behind the shifts, as hatched bands with words on them
     expect(await page.locator('.fc-bg-event.gl-band-night').count()).toBeGreaterThan(0)
     expect(await page.locator('.fc-bg-event.gl-band-astronomical').count()).toBeGreaterThan(0)

@@ -88,7 +88,7 @@ describe('the crew member\'s today', () => {
     const after = (await crew.get('/api/me/today')).body
     const shift = after.sites.flatMap((s: any) => s.days.flatMap((d: any) => d.shifts)).find((s: any) => s.id === flagged.id)
     expect(shift.reviewState).toBe('approved')
-    expect(shift.reviewWords).toBe('Approved in safety review (Tomas Reyes)')
+    expect(shift.reviewWords).toBe('Approved by Tomas Reyes')
     expect(shift.mitigations).toEqual(['Portable work lighting on site', 'At least two people on the task at all times'])
     expect(shift.reviewNote).toBe('Head torches checked at the hut')
   })
