@@ -2,6 +2,7 @@
 // it: the light window from the light engine, their shifts with light state and review decision, the
 // weather from the stored forecast, and the cautions. Explicit imports only (no Nitro auto-imports),
 // so unit tests can run it against a fresh database.
+import { formatTemperature, formatWind, type FigureUnits } from '../../shared/units'
 import { and, asc, eq, gt, inArray, isNull, lt } from 'drizzle-orm'
 import { people, shiftAssignees, shifts, sites, type Person, type Shift, type Site } from '../db/schema'
 import type { LightPeriod, LightPeriodMs, LightRequirement } from '../../shared/light'
@@ -260,12 +261,13 @@ export function describeReviewWords(state: Shift['reviewState'], review: ShiftRe
   }
 }
 
-function describeWeatherWords(weather: WindowWeather): string {
+// in the person's units (metric: °C and km/h as computed; imperial: converted for display)
+function describeWeatherWords(weather: WindowWeather, units: FigureUnits = 'metric'): string {
   const f = weather.figures
   if (!f) return weather.basis === 'none' ? `${weather.label}.` : weather.label
-  const gust = f.strongestGustKmh !== null ? `, gusts ${Math.round(f.strongestGustKmh)} km/h` : ''
-  const chill = f.worstWindChill ? `; wind chill down to ${signed(f.worstWindChill.roundedC)}` : ''
-  return `Coldest ${signed(Math.round(f.coldestTemperatureC))} °C, wind up to ${Math.round(f.strongestWindKmh)} km/h${gust}${chill}. ${f.frostbite.label}. (${weather.label})`
+  const gust = f.strongestGustKmh !== null ? `, gusts ${formatWind(f.strongestGustKmh, units)}` : ''
+  const chill = f.worstWindChill ? `; wind chill down to ${units === 'imperial' ? formatTemperature(f.worstWindChill.roundedC, units) : signed(f.worstWindChill.roundedC)}` : ''
+  return `Coldest ${formatTemperature(f.coldestTemperatureC, units)}, wind up to ${formatWind(f.strongestWindKmh, units)}${gust}${chill}. ${f.frostbite.label}. (${weather.label})`
 }
 
 function signed(value: number): string {
@@ -322,6 +324,8 @@ export interface ShiftDescriptionInput {
   observations: ReturnType<typeof loadSiteObservations>
   /** The shift's light bands when the caller has them already (the feed slices one trace per site). */
   bands?: LightPeriodMs[]
+  /** The reader's units for the weather words (metric when absent). */
+  units?: FigureUnits
 }
 
 /** One shift as a crew member reads it: when, what light it needs and gets, the review, weather and cautions. */
@@ -347,7 +351,7 @@ export function describeCrewShift(input: ShiftDescriptionInput): CrewShift {
     reviewNote: input.review?.current ? input.review.note : '',
     mitigations: input.review?.current ? input.review.mitigations.map(describeMitigation) : [],
     crewmates: input.assignees.filter(a => a.id !== input.personId).map(a => a.name),
-    alone, notes: row.notes, weather: describeWeatherWords(weather),
+    alone, notes: row.notes, weather: describeWeatherWords(weather, input.units),
     cautions: [
       ...collectColdCrewCautions(weather.figures),
       ...collectLightCrewCautions(row.light, row.minutesBelow, bandMinutes.dark),
@@ -369,7 +373,7 @@ export function loadPersonShifts(db: AppDatabase, personId: number, fromMs: numb
 export interface SiteDaysInput {
   site: Site
   dates: { date: string, which: CrewDay['which'] }[]
-  person: Pick<Person, 'id' | 'displayZone'>
+  person: Pick<Person, 'id' | 'displayZone'> & { units?: FigureUnits }
   shifts: Shift[]
   /** Which shifts belong to a date: those starting on it (reminders) or overlapping it (home). */
   match: 'starts' | 'overlaps'
@@ -403,9 +407,9 @@ export function buildCrewSiteView(db: AppDatabase, input: SiteDaysInput): CrewSi
     const dayWeather = describeWindowWeather(forecast, observations, { startMs: underWay ? aheadMs : dayStart, endMs: dayEnd, bands: [], timezone: zone })
     return {
       ...light[i]!, which,
-      shifts: onDay.map(row => describeCrewShift({ row, site, zone, personId: person.id, assignees: assignees.get(row.id) ?? [], review: reviews.get(row.id) ?? null, forecast, observations })),
+      shifts: onDay.map(row => describeCrewShift({ row, site, zone, personId: person.id, assignees: assignees.get(row.id) ?? [], review: reviews.get(row.id) ?? null, forecast, observations, units: person.units })),
       // with no forecast at all the site's forecast note says so once; no need to repeat it per day
-      weather: forecast.latest ? `${underWay ? `From ${formatLocalTime(aheadMs, zone)} to midnight: ` : ''}${describeWeatherWords(dayWeather)}` : ''
+      weather: forecast.latest ? `${underWay ? `From ${formatLocalTime(aheadMs, zone)} to midnight: ` : ''}${describeWeatherWords(dayWeather, person.units)}` : ''
     }
   })
   return {
