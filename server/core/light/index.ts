@@ -286,7 +286,10 @@ function traceSunCourse(latitude: number, longitude: number, fromMs: number, toM
     if (last && (extremum.ms <= last.ms || (isMax ? extremum.g <= last.g : extremum.g >= last.g))) return null
     found.push({ ms: extremum.ms, g: extremum.g, isMax })
     m++
-    guess = extremum.ms + DAY_MS / 2
+    // the next extreme is of the kind two back: a day after it, corrected by that kind's own drift
+    // (within a second or two, so Newton usually settles it on its first evaluation)
+    const n = found.length
+    guess = n >= 4 ? 2 * found[n - 2]!.ms - found[n - 4]!.ms : extremum.ms + DAY_MS / 2
   }
   if (found.length < 2) return null
   const times = new Float64Array(found.length)

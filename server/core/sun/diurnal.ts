@@ -1,7 +1,7 @@
-// The sun's daily course at a site, fast: suncalc's position function is asked every second UTC day for
+// The sun's daily course at a site, fast: suncalc's position function is asked every third UTC day for
 // the sun's declination δ and right ascension α (read at the north pole, where its altitude is δ and
 // its azimuth is the hour angle + 180°); in between both are interpolated (4-point Lagrange;
-// errors below 1e-7 rad), and the rest is the closed-form spherical astronomy suncalc itself uses
+// errors below 4e-7 rad), and the rest is the closed-form spherical astronomy suncalc itself uses
 // (Meeus, Astronomical Algorithms, 2nd ed.: sidereal time 12.4, altitude 13.6, azimuth 13.5):
 //   sin h = sin φ sin δ + cos φ cos δ cos H,   H = θ0(t) + λ − α(t).
 // Each day's highest and lowest point is found from the meridian passages (H = 0, π) with Newton steps
@@ -21,10 +21,11 @@ const J2000_DAYS_FROM_EPOCH = 10_957.5
 const THETA0_RAD = 280.46061837 * RAD
 const THETA_RATE_RAD_PER_DAY = 360.98564736629 * RAD
 const THETA_RATE_PER_MS = THETA_RATE_RAD_PER_DAY / DAY_MS
-// Spacing of the sampled δ and α: every second UTC midnight. Their fourth derivatives are at most
+// Spacing of the sampled δ and α: every third UTC midnight. Their fourth derivatives are at most
 // ~1e-7 rad/day⁴ (the semiannual term of the equation of time), so the cubic's error stays under
-// ~1e-7 rad (2e-5°), a few hundredths of a second on a crossing even where the sun climbs slowly.
-const NODE_STEP_MS = 2 * DAY_MS
+// ~4e-7 rad (2e-5°): well under a second on a crossing even where the sun climbs slowly
+// (tests/unit/light.course.test.ts checks every crossing of a year against suncalc itself).
+const NODE_STEP_MS = 3 * DAY_MS
 // Roots and extremes are settled to within this (the reported instants are whole seconds).
 const TIME_TOLERANCE_MS = 20
 const MAX_NEWTON_STEPS = 8
@@ -34,7 +35,7 @@ function siderealRad(ms: number): number {
   return THETA0_RAD + THETA_RATE_RAD_PER_DAY * (ms / DAY_MS - J2000_DAYS_FROM_EPOCH)
 }
 
-/** δ and α at every second UTC midnight (α unwrapped so that it increases smoothly), from suncalc's position. */
+/** δ and α at every third UTC midnight (α unwrapped so that it increases smoothly), from suncalc's position. */
 export interface SunNodes {
   firstMs: number
   dec: Float64Array
