@@ -159,6 +159,17 @@ describe('the review loop in the browser', () => {
     await page.context().close()
   })
 
+  it('shows the coordinator the review rules on the settings page, with the cold limit', async () => {
+    const page = await openAs('coordinator@gloamline.test')
+    await page.goto(`${world.server.url}/settings`)
+    await page.getByTestId('review-rules').waitFor()
+    expect(await page.getByLabel('Cold limit: wind chill at or below (°C)').inputValue()).toBe('-27')
+    expect(await page.getByLabel('Longest shift (hours)').inputValue()).toBe('12')
+    await page.getByTestId('review-rules').scrollIntoViewIfNeeded()
+    await keepScreenshot(page, 'review-loop-settings-rules')
+    await page.context().close()
+  })
+
   it('reads on a phone in the dark theme', async () => {
     const page = await openAs('coordinator@gloamline.test', { width: 390, height: 844 }, 'dark')
     await page.goto(`${world.server.url}/`)
