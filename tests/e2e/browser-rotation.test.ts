@@ -52,7 +52,8 @@ describe('a rotation planned, previewed and reviewed in the browser', () => {
     await signInThroughPage(page, server.url, 'coordinator@gloamline.test')
     await page.goto(`${server.url}/plan?site=${siteId}&date=2027-10-18&view=week`)
     await page.getByTestId('plan-calendar').waitFor()
-    await page.waitForLoadState('networkidle')
+    // the calendar is ready once the site's light lies behind it
+    await page.locator('.fc-bg-event').first().waitFor()
     // a click on Monday 18 October at 10:00 opens a new shift there
     const slot = page.locator('td.fc-timegrid-slot-lane[data-time="10:00:00"]')
     await slot.scrollIntoViewIfNeeded()
