@@ -10,6 +10,7 @@
 // - Bodies are read here, counting bytes, and refused with 413 past the limit: 1 MB for JSON, the
 //   import limit for the import routes, and that larger limit only after the coordinator check.
 import type { H3Event } from 'h3'
+import { useServerConfig } from '../utils/config'
 import { MAX_IMPORT_CSV_CHARS } from '../core/planning/csv'
 
 const WRITE_METHODS = new Set(['POST', 'PUT', 'PATCH', 'DELETE'])
