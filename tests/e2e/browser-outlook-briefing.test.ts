@@ -37,8 +37,10 @@ describe('the daily briefing with a forecast', () => {
     await matchServerClock(page, server)
     await signInThroughPage(page, server.url, 'coordinator@gloamline.test')
     await page.goto(`${server.url}/sites/${siteId}/briefing`)
-    await page.waitForLoadState('networkidle')
+    // wait for what is checked, not for an idle network (the offline bar's /health probe can stay open)
     const forecast = page.locator('section[aria-labelledby="brief-forecast"]')
+    await forecast.locator('thead th').first().waitFor()
+    await page.locator('section[aria-labelledby="brief-cautions"]').waitFor()
     expect(await page.getByTestId('no-forecast').count()).toBe(0)
     // every third hour of the local day, as columns
     expect(await forecast.locator('thead th').count()).toBe(1 + 8)
