@@ -13,7 +13,8 @@ export function useConnection() {
   async function probe() {
     if (!import.meta.client) return
     try {
-      await fetch('/health', { cache: 'no-store' })
+      // read the (small) body: an unread reply keeps the request open in the browser
+      await (await fetch('/health', { cache: 'no-store' })).text()
       online.value = true
     } catch {
       online.value = false
