@@ -168,9 +168,9 @@ describe('the calendar feed', () => {
 describe('preferences', () => {
   it('reads and changes reminders, display zone and sun events, refusing bad values by field', async () => {
     const client = await signedInClient(server, 'kalle.niemi@gloamline.test')
-    expect((await client.get('/api/me/preferences')).body).toEqual({ remindersEnabled: true, displayZone: 'site', feedIncludeSun: false })
+    expect((await client.get('/api/me/preferences')).body).toEqual({ remindersEnabled: true, displayZone: 'site', feedIncludeSun: false, units: 'metric' })
     const changed = await client.patch('/api/me/preferences', { displayZone: 'America/Nuuk', remindersEnabled: false })
-    expect(changed.body).toEqual({ remindersEnabled: false, displayZone: 'America/Nuuk', feedIncludeSun: false })
+    expect(changed.body).toEqual({ remindersEnabled: false, displayZone: 'America/Nuuk', feedIncludeSun: false, units: 'metric' })
     for (const [body, field] of [[{ displayZone: 'Mars/Olympus' }, 'displayZone'], [{ remindersEnabled: 'yes' }, 'remindersEnabled'], [{ colour: 'red' }, 'body']] as const) {
       const reply = await client.patch('/api/me/preferences', body)
       expect(reply.status).toBe(400)

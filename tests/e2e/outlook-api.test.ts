@@ -98,7 +98,7 @@ describe('POST /api/slots/search', () => {
     const reply = await coordinator.post('/api/slots/search', body({ rank: 'margin', assigneeIds: [person.body.id] }))
     expect(reply.status).toBe(200)
     expect(reply.body.from).toBe(body().from)
-    expect(reply.body.rules).toEqual({ minRestHours: 11, maxShiftHours: 12 })
+    expect(reply.body.rules).toEqual({ minRestHours: 11, maxShiftHours: 12, reviewWindChillC: -27, weeklyLimitHours: null })
     expect(reply.body.daysSearched).toBe(14)
     expect(reply.body.daysWithSlots).toBe(14)
     expect(reply.body.slots).toHaveLength(14)
@@ -110,7 +110,8 @@ describe('POST /api/slots/search', () => {
     const slot = reply.body.slots[0]
     const created = await coordinator.post('/api/shifts', { siteId: body().siteId, title: 'Valve check', start: slot.start, end: slot.end, light: 'civil', assigneeIds: slot.assigneeIds })
     expect(created.status).toBe(201)
-    expect(created.body.lightCheck).toEqual({ requirement: 'civil', minutesBelow: 0, flagged: false })
+    // no travel: the checked outing is the shift itself
+    expect(created.body.lightCheck).toEqual({ requirement: 'civil', minutesBelow: 0, flagged: false, checkedFrom: created.body.start, checkedTo: created.body.end })
   })
 
   it('answers 400 naming assigneeIds when no people are given', async () => {
