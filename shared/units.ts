@@ -16,6 +16,17 @@ export function toMph(kmh: number): number {
   return kmh / KMH_PER_MPH
 }
 
+/** m → ft. */
+export function toFeet(metres: number): number {
+  return metres / M_PER_FT
+}
+
+/** The symbols a person's units print: `°C`, `km/h`, `m` or `°F`, `mph`, `ft`. */
+export const UNIT_SYMBOLS: Record<FigureUnits, { temperature: string, wind: string, distance: string }> = {
+  metric: { temperature: '°C', wind: 'km/h', distance: 'm' },
+  imperial: { temperature: '°F', wind: 'mph', distance: 'ft' }
+}
+
 // a true minus sign, as elsewhere in the app
 const signed = (v: number) => String(Math.round(v)).replace('-', '−')
 
@@ -34,5 +45,11 @@ export function formatWind(kmh: number | null, units: FigureUnits): string {
 /** `200 m` or `656 ft`; an em dash for no value. */
 export function formatVisibility(metres: number | null, units: FigureUnits): string {
   if (metres === null) return '—'
-  return units === 'imperial' ? `${Math.round(metres / M_PER_FT)} ft` : `${Math.round(metres)} m`
+  return units === 'imperial' ? `${Math.round(toFeet(metres))} ft` : `${Math.round(metres)} m`
+}
+
+/** A site's elevation: `812 m` or `2664 ft`, below sea level with a true minus sign; em dash for none. */
+export function formatElevation(metres: number | null, units: FigureUnits): string {
+  if (metres === null) return '—'
+  return units === 'imperial' ? `${signed(toFeet(metres))} ft` : `${signed(metres)} m`
 }
