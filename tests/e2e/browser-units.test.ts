@@ -1,0 +1,59 @@
+// An imperial person sees cold, wind and distance in °F, mph and ft on a phone. Conversions by the
+// exact factors (1959 international yard and pound agreement): 812 m = 2664.04 ft.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser } from 'playwright-core'
+import { keepScreenshot, launchBrowser, matchServerClock } from '../support/browser'
+import { DEMO_PASSWORD } from '../support/app-server'
+import { createDarkShift, createDarkSite, findPeopleIds, startSafetyWorld, type SafetyWorld } from '../support/safety-fixtures'
+
+let world: SafetyWorld
+let browser: Browser
+let shiftId: number
+
+beforeAll(async () => {
+  world = await startSafetyWorld()
+  browser = await launchBrowser()
+  const site = await createDarkSite(world.coordinator, 'Invented Tallow Fell')
+  const elevated = await world.coordinator.post('/api/sites', { name: 'Invented Cairn Shoulder', latitude: 61, longitude: 1, timezone: 'UTC', elevation: 812 })
+  expect(elevated.status).toBe(201)
+  const { crew } = await findPeopleIds(world.coordinator)
+  shiftId = (await createDarkShift(world.coordinator, site.id, { daysAhead: 1, assigneeIds: crew.slice(0, 1), title: 'Fell mast survey' })).id
+  await world.safety.post(`/api/sites/${site.id}/forecast/refresh`)
+  const prefs = await world.safety.patch('/api/me/preferences', { units: 'imperial' })
+  expect(prefs.status).toBe(200)
+})
+afterAll(async () => {
+  await browser?.close()
+  await world?.stop()
+})
+
+describe('figures in an imperial person\'s units on a phone', () => {
+  it('enters a site reading in °F and mph by default, and lists elevation in feet', async () => {
+    const page = await browser.newPage({ viewport: { width: 390, height: 844 } })
+    await matchServerClock(page, world.server)
+    // signed in through the API in the page's own context (the sign-in page has its own browser test)
+    const signIn = await page.request.post(`${world.server.url}/api/auth/login`, { data: { email: 'safety@gloamline.test', password: DEMO_PASSWORD }, headers: { origin: world.server.url } })
+    expect(signIn.status()).toBeLessThan(300)
+    await page.goto(`${world.server.url}/review/${shiftId}`)
+    await page.getByRole('button', { name: 'Enter site readings' }).click()
+    const form = page.getByTestId('reading-form')
+    await form.waitFor()
+    await expect.poll(() => form.locator('#reading-units').inputValue()).toBe('imperial')
+    expect(await form.locator('label[for="reading-temperature"]').textContent()).toContain('°F')
+    expect(await form.locator('label[for="reading-wind"]').textContent()).toContain('mph')
+
+    await form.locator('#reading-temperature').fill('-4')
+    await form.locator('#reading-wind').fill('25')
+    await form.getByRole('button', { name: 'Add this reading' }).click()
+    await expect.poll(() => form.getByRole('status').textContent()).toContain('1 reading stored.')
+    await keepScreenshot(page, 'units-reading-form-phone')
+
+    await page.goto(`${world.server.url}/sites`)
+    const table = page.getByTestId('site-table')
+    await table.waitFor()
+    await expect.poll(() => table.textContent()).toContain('2664 ft elevation')
+    expect(await table.textContent()).not.toContain('812 m')
+    await keepScreenshot(page, 'units-sites-phone')
+    await page.close()
+  })
+})
