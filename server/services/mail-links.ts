@@ -5,6 +5,7 @@
 // The outbox puts the link back into the body at the moment it hands the mail to SMTP.
 // Explicit imports only, so unit tests can run it.
 import { createCipheriv, createDecipheriv, hkdfSync, randomBytes } from 'node:crypto'
+import { useServerConfig } from '../utils/config'
 
 /** What the stored body shows in place of the link. */
 export const LINK_PLACEHOLDER = '[one-time link: only in the mail as sent]'
@@ -36,7 +37,7 @@ function escapeForHtml(value: string) {
 }
 
 /** The body to send: the placeholder replaced by the opened link when the message carries a sealed one. */
-export function revealMailLink(message: { html: string, text: string, meta: Record<string, unknown> | null }, secret = process.env.NUXT_SESSION_PASSWORD ?? ''): { html: string, text: string } {
+export function revealMailLink(message: { html: string, text: string, meta: Record<string, unknown> | null }, secret = useServerConfig().sessionPassword): { html: string, text: string } {
   const sealed = message.meta?.sealedLink
   if (typeof sealed !== 'string') return { html: message.html, text: message.text }
   const link = openMailLink(sealed, secret)
