@@ -21,6 +21,11 @@ export function toFeet(metres: number): number {
   return metres / M_PER_FT
 }
 
+/** ft → m (for figures entered in feet). */
+export function fromFeet(feet: number): number {
+  return feet * M_PER_FT
+}
+
 /** The symbols a person's units print: `°C`, `km/h`, `m` or `°F`, `mph`, `ft`. */
 export const UNIT_SYMBOLS: Record<FigureUnits, { temperature: string, wind: string, distance: string }> = {
   metric: { temperature: '°C', wind: 'km/h', distance: 'm' },

@@ -2,7 +2,7 @@
 // international yard and pound agreement (1959), also NIST SP 811 appendix B: 1 ft = 0.3048 m,
 // 1 mile = 1609.344 m so 1 mph = 1.609344 km/h; NIST SP 811 §4.2.1.1: °F = °C × 9/5 + 32.
 import { describe, expect, it } from 'vitest'
-import { formatElevation, formatTemperature, formatVisibility, formatWind, toFahrenheit, toFeet, toMph, UNIT_SYMBOLS } from '../../shared/units'
+import { formatElevation, formatTemperature, formatVisibility, formatWind, fromFeet, toFahrenheit, toFeet, toMph, UNIT_SYMBOLS } from '../../shared/units'
 
 describe('unit conversions (exact factors, NIST SP 811)', () => {
   it('turns °C into °F at the fixed points and where the scales meet', () => {
@@ -22,6 +22,12 @@ describe('unit conversions (exact factors, NIST SP 811)', () => {
     expect(toFeet(0.3048)).toBeCloseTo(1, 12)
     expect(toFeet(1609.344)).toBeCloseTo(5280, 9) // one statute mile
     expect(toFeet(1000)).toBeCloseTo(3280.8399, 4)
+  })
+
+  it('turns feet entered by a person back into metres', () => {
+    expect(fromFeet(1000)).toBeCloseTo(304.8, 12)
+    expect(fromFeet(5280)).toBeCloseTo(1609.344, 9) // one statute mile
+    expect(fromFeet(toFeet(812))).toBeCloseTo(812, 9)
   })
 })
 
