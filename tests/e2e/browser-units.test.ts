@@ -72,7 +72,7 @@ describe('figures in an imperial person\'s units on a phone', () => {
     await page.close()
   })
 
-  it('edits a site\'s elevation in feet and stores metres (1000 ft = 304.8 m)', async () => {
+  it('edits a site\'s elevation in feet and stores metres (1000 ft = 304.8 m), and shows the review cold limit in °F', async () => {
     expect((await world.coordinator.patch('/api/me/preferences', { units: 'imperial' })).status).toBe(200)
     const page = await browser.newPage({ viewport: { width: 390, height: 844 } })
     await matchServerClock(page, world.server)
@@ -96,6 +96,12 @@ describe('figures in an imperial person\'s units on a phone', () => {
     await page.getByRole('button', { name: 'Save the site' }).click()
     await page.waitForURL(/\/sites$/)
     expect((await world.coordinator.get(`/api/sites/${elevatedId}`)).body.elevation).toBeCloseTo(304.8, 9)
+
+    // the review cold limit stays in °C as stored; −27 °C = −16.6 °F
+    const limitC = (await world.coordinator.get('/api/settings/work-rules')).body.reviewWindChillC
+    expect(limitC).toBe(-27)
+    await page.goto(`${world.server.url}/settings`)
+    await expect.poll(() => page.getByTestId('rules-cold-limit-imperial').textContent()).toContain('≈ −17 °F')
     await page.close()
   })
 })
