@@ -13,7 +13,8 @@ const DEFAULT_FORECAST_DAYS = 7
 /** Answer modes: normal, slow (never answers), garbage (not JSON), malformed (JSON of the wrong shape), error (HTTP 500). */
 export const FAKE_FORECAST_MODES = ['normal', 'slow', 'garbage', 'malformed', 'error']
 
-const HOURLY_VARIABLES = ['temperature_2m', 'wind_speed_10m', 'wind_gusts_10m']
+const HOURLY_VARIABLES = ['temperature_2m', 'wind_speed_10m', 'wind_gusts_10m', 'visibility']
+const HOURLY_UNIT_LABELS = { temperature_2m: '°C', visibility: 'm' }
 const WIND_UNITS = { kmh: { label: 'km/h', factor: 1 }, ms: { label: 'm/s', factor: 1 / 3.6 }, mph: { label: 'mp/h', factor: 1 / 1.609344 }, kn: { label: 'kn', factor: 1 / 1.852 } }
 
 // 32-bit integer hash of a string (FNV-1a followed by a murmur-style finaliser): a reproducible seed.
@@ -52,11 +53,12 @@ function roundTenth(value) {
 
 /**
  * Invented weather for one place and hour: colder towards the poles and in their winter, windier there.
- * At 78°N on 1 December it gives about −25 to −34 °C.
+ * At 78°N on 1 December it gives about −25 to −34 °C. Visibility (metres, to the nearest 10) wanders
+ * between a few kilometres and 24 km and falls steeply as wind rises past 30 km/h (drifting snow).
  * @param {number} latitude
  * @param {number} longitude
  * @param {number} ms start of the hour, epoch milliseconds
- * @returns {{ temperatureC: number, windKmh: number, gustKmh: number }}
+ * @returns {{ temperatureC: number, windKmh: number, gustKmh: number, visibilityM: number }}
  */
 export function computeFakeWeather(latitude, longitude, ms) {
   const hourIndex = Math.floor(ms / HOUR_MS)
@@ -73,10 +75,14 @@ export function computeFakeWeather(latitude, longitude, ms) {
   const baseWindKmh = 8 + 0.2 * Math.abs(latitude) + 6 * Math.max(0, winterness)
   const windKmh = Math.max(0, baseWindKmh * (1 + 0.6 * smoothNoise(latitude, longitude, 'wind', hourIndex, 6)))
   const gustKmh = windKmh * (1.35 + 0.15 * noiseAt(latitude, longitude, 'gust', hourIndex)) + 2
+  const clearness = (smoothNoise(latitude, longitude, 'visibility', hourIndex, 8) + 1) / 2
+  const drift = Math.min(1, Math.max(0, (windKmh - 30) / 40))
+  const visibilityM = Math.max(50, 24_000 * (0.15 + 0.85 * clearness) * (1 - 0.95 * drift))
   return {
     temperatureC: roundTenth(seasonalC + dailyC + weatherC),
     windKmh: roundTenth(windKmh),
-    gustKmh: roundTenth(gustKmh)
+    gustKmh: roundTenth(gustKmh),
+    visibilityM: Math.round(visibilityM / 10) * 10
   }
 }
 
@@ -131,7 +137,7 @@ export function buildFakeForecastReply(params, nowMs) {
   const hourlyUnits = { time: 'iso8601' }
   const hourly = { time: [] }
   for (const name of query.hourly) {
-    hourlyUnits[name] = name === 'temperature_2m' ? '°C' : wind.label
+    hourlyUnits[name] = HOURLY_UNIT_LABELS[name] ?? wind.label
     hourly[name] = []
   }
   for (let ms = query.startMs; ms < query.endMs; ms += HOUR_MS) {
@@ -140,6 +146,7 @@ export function buildFakeForecastReply(params, nowMs) {
     if (hourly.temperature_2m) hourly.temperature_2m.push(weather.temperatureC)
     if (hourly.wind_speed_10m) hourly.wind_speed_10m.push(roundTenth(weather.windKmh * wind.factor))
     if (hourly.wind_gusts_10m) hourly.wind_gusts_10m.push(roundTenth(weather.gustKmh * wind.factor))
+    if (hourly.visibility) hourly.visibility.push(weather.visibilityM)
   }
   const body = {
     latitude: query.latitude,

@@ -14,6 +14,8 @@ const MAX_FORECAST_DAYS = 16
 // Sanity bounds on a reply: values outside them mean the reply is not what we asked for.
 const PLAUSIBLE_TEMPERATURE_C = { min: -100, max: 70 }
 const PLAUSIBLE_WIND_KMH = { max: 500 }
+// Open-Meteo reports visibility in metres; a few tens of kilometres at most in practice.
+const PLAUSIBLE_VISIBILITY_M = { max: 200_000 }
 
 export interface ForecastHour {
   /** Start of the hour, ISO 8601 in UTC. */
@@ -21,6 +23,8 @@ export interface ForecastHour {
   temperatureC: number | null
   windKmh: number | null
   gustKmh: number | null
+  /** Horizontal visibility in metres; absent in forecasts stored before it was asked for. */
+  visibilityM?: number | null
 }
 
 export type ForecastFailureReason = 'timeout' | 'http-error' | 'malformed' | 'network' | 'invalid-request'
@@ -48,15 +52,18 @@ const ForecastReplySchema = z.object({
   hourly_units: z.object({
     temperature_2m: z.literal('°C'),
     wind_speed_10m: z.literal('km/h'),
-    wind_gusts_10m: z.literal('km/h')
+    wind_gusts_10m: z.literal('km/h'),
+    // Optional so a reply (or a stored forecast) without visibility still reads.
+    visibility: z.literal('m').optional()
   }),
   hourly: z.object({
     time: z.array(z.string().regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2})?$/)),
     temperature_2m: z.array(nullableNumber(PLAUSIBLE_TEMPERATURE_C.min, PLAUSIBLE_TEMPERATURE_C.max)),
     wind_speed_10m: z.array(nullableNumber(0, PLAUSIBLE_WIND_KMH.max)),
-    wind_gusts_10m: z.array(nullableNumber(0, PLAUSIBLE_WIND_KMH.max))
+    wind_gusts_10m: z.array(nullableNumber(0, PLAUSIBLE_WIND_KMH.max)),
+    visibility: z.array(nullableNumber(0, PLAUSIBLE_VISIBILITY_M.max)).optional()
   }).refine(
-    h => [h.temperature_2m, h.wind_speed_10m, h.wind_gusts_10m].every(a => a.length === h.time.length),
+    h => [h.temperature_2m, h.wind_speed_10m, h.wind_gusts_10m, h.visibility ?? h.time].every(a => a.length === h.time.length),
     { error: 'hourly arrays differ in length' }
   )
 })
@@ -73,7 +80,7 @@ function buildForecastUrl(request: ForecastRequest): URL {
   const url = new URL(`${request.baseUrl.replace(/\/+$/, '')}/v1/forecast`)
   url.searchParams.set('latitude', String(request.latitude))
   url.searchParams.set('longitude', String(request.longitude))
-  url.searchParams.set('hourly', 'temperature_2m,wind_speed_10m,wind_gusts_10m')
+  url.searchParams.set('hourly', 'temperature_2m,wind_speed_10m,wind_gusts_10m,visibility')
   url.searchParams.set('wind_speed_unit', 'kmh')
   url.searchParams.set('timezone', 'UTC')
   url.searchParams.set('forecast_days', String(request.days))
@@ -157,13 +164,14 @@ function convertReplyToHours(hourly: z.infer<typeof ForecastReplySchema>['hourly
       at: new Date(ms).toISOString(),
       temperatureC: hourly.temperature_2m[i] ?? null,
       windKmh: hourly.wind_speed_10m[i] ?? null,
-      gustKmh: hourly.wind_gusts_10m[i] ?? null
+      gustKmh: hourly.wind_gusts_10m[i] ?? null,
+      visibilityM: hourly.visibility?.[i] ?? null
     })
   }
   return hours
 }
 
-/** Fetches an hourly forecast (temperature, wind, gusts at 10 m, UTC); never throws. */
+/** Fetches an hourly forecast (temperature, wind, gusts at 10 m, visibility, UTC); never throws. */
 export async function fetchHourlyForecast(request: ForecastRequest): Promise<ForecastResult> {
   try {
     const problem = checkForecastRequest(request)

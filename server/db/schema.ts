@@ -160,7 +160,7 @@ export const forecasts = sqliteTable('forecasts', {
   // 'ok' with hours, or why there is no usable forecast ('timeout', 'http-error', 'malformed', 'network')
   status: text('status').notNull().default('ok'),
   fetchedAt: integer('fetched_at', { mode: 'timestamp_ms' }).notNull(),
-  hours: text('hours', { mode: 'json' }).$type<{ at: string, temperatureC: number | null, windKmh: number | null, gustKmh: number | null }[]>().notNull()
+  hours: text('hours', { mode: 'json' }).$type<{ at: string, temperatureC: number | null, windKmh: number | null, gustKmh: number | null, visibilityM?: number | null }[]>().notNull()
 }, t => [index('forecasts_site_idx').on(t.siteId, t.fetchedAt)])
 
 export const observations = sqliteTable('observations', {

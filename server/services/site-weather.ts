@@ -307,7 +307,7 @@ export function loadSiteHourlyWeather(db: Pick<AppDatabase, 'select'>, siteId: n
   const hours = new Map<number, SiteWeatherHour>()
   for (const h of forecast?.hours ?? []) {
     const atMs = Date.parse(h.at)
-    hours.set(atMs, { atMs, temperatureC: h.temperatureC, windKmh: h.windKmh, visibilityM: (h as { visibilityM?: number | null }).visibilityM ?? null, source: 'forecast' })
+    hours.set(atMs, { atMs, temperatureC: h.temperatureC, windKmh: h.windKmh, visibilityM: h.visibilityM ?? null, source: 'forecast' })
   }
   const readings = db.select().from(observations)
     .where(and(eq(observations.siteId, siteId), gte(observations.at, new Date(nowMs - 2 * DAY_MS))))

@@ -40,12 +40,13 @@ function validReply() {
     latitude: 78.2,
     longitude: 15.6,
     utc_offset_seconds: 0,
-    hourly_units: { time: 'iso8601', temperature_2m: '°C', wind_speed_10m: 'km/h', wind_gusts_10m: 'km/h' },
+    hourly_units: { time: 'iso8601', temperature_2m: '°C', wind_speed_10m: 'km/h', wind_gusts_10m: 'km/h', visibility: 'm' as string | undefined },
     hourly: {
       time: ['2026-12-01T00:00', '2026-12-01T01:00'],
       temperature_2m: [-25.1, null],
       wind_speed_10m: [20.4, 22],
-      wind_gusts_10m: [30, null]
+      wind_gusts_10m: [30, null],
+      visibility: [8400, null] as (number | null)[] | undefined
     }
   }
 }
@@ -61,10 +62,26 @@ describe('fetchHourlyForecast against the local fake forecast server', () => {
     expect(result.hours[0]!.at).toBe('2026-12-01T00:00:00.000Z')
     expect(result.hours[47]!.at).toBe('2026-12-02T23:00:00.000Z')
     const noon = computeFakeWeather(SITE.latitude, SITE.longitude, Date.parse('2026-12-01T12:00:00Z'))
-    expect(result.hours[12]).toEqual({ at: '2026-12-01T12:00:00.000Z', temperatureC: noon.temperatureC, windKmh: noon.windKmh, gustKmh: noon.gustKmh })
+    expect(result.hours[12]).toEqual({ at: '2026-12-01T12:00:00.000Z', temperatureC: noon.temperatureC, windKmh: noon.windKmh, gustKmh: noon.gustKmh, visibilityM: noon.visibilityM })
   })
 
-  it('asks for temperature, wind and gusts in km/h, in UTC, for the number of days', async () => {
+  it('serves a deterministic, plausible visibility in metres', async () => {
+    const first = await fetchHourlyForecast({ baseUrl: fake.url, ...SITE, days: 2, timeoutMs: 2000 })
+    const again = await fetchHourlyForecast({ baseUrl: fake.url, ...SITE, days: 2, timeoutMs: 2000 })
+    expect(first.ok && again.ok).toBe(true)
+    if (!first.ok || !again.ok) return
+    const visibilities = first.hours.map(h => h.visibilityM)
+    expect(again.hours.map(h => h.visibilityM)).toEqual(visibilities)
+    // Plausible: whole metres between 50 m and 24 km (invented series; the bounds are this fake's own).
+    for (const v of visibilities) {
+      expect(Number.isInteger(v)).toBe(true)
+      expect(v).toBeGreaterThanOrEqual(50)
+      expect(v).toBeLessThanOrEqual(24_000)
+    }
+    expect(new Set(visibilities).size).toBeGreaterThan(1)
+  })
+
+  it('asks for temperature, wind and gusts in km/h and visibility, in UTC, for the number of days', async () => {
     const seen: URL[] = []
     const recordingFetch: typeof fetch = (input, init) => {
       seen.push(new URL(String(input)))
@@ -73,7 +90,7 @@ describe('fetchHourlyForecast against the local fake forecast server', () => {
     await fetchHourlyForecast({ baseUrl: `${fake.url}/`, ...SITE, days: 3, timeoutMs: 2000, fetchImpl: recordingFetch })
     const url = seen[0]!
     expect(url.pathname).toBe('/v1/forecast')
-    expect(url.searchParams.get('hourly')).toBe('temperature_2m,wind_speed_10m,wind_gusts_10m')
+    expect(url.searchParams.get('hourly')).toBe('temperature_2m,wind_speed_10m,wind_gusts_10m,visibility')
     expect(url.searchParams.get('wind_speed_unit')).toBe('kmh')
     expect(url.searchParams.get('timezone')).toBe('UTC')
     expect(url.searchParams.get('forecast_days')).toBe('3')
@@ -116,7 +133,20 @@ describe('fetchHourlyForecast reply checks (stubbed fetch)', () => {
 
   it('keeps null values as null', async () => {
     const result = await fetchHourlyForecast({ ...request, fetchImpl: stubFetch(validReply()) })
-    expect(result.ok && result.hours[1]).toEqual({ at: '2026-12-01T01:00:00.000Z', temperatureC: null, windKmh: 22, gustKmh: null })
+    expect(result.ok && result.hours[1]).toEqual({ at: '2026-12-01T01:00:00.000Z', temperatureC: null, windKmh: 22, gustKmh: null, visibilityM: null })
+  })
+
+  it('reads visibility in metres into visibilityM', async () => {
+    const result = await fetchHourlyForecast({ ...request, fetchImpl: stubFetch(validReply()) })
+    expect(result.ok && result.hours.map(h => h.visibilityM)).toEqual([8400, null])
+  })
+
+  it('still reads a reply without visibility, leaving visibilityM null', async () => {
+    const reply = validReply()
+    delete reply.hourly.visibility
+    delete reply.hourly_units.visibility
+    const result = await fetchHourlyForecast({ ...request, fetchImpl: stubFetch(reply) })
+    expect(result.ok && result.hours.map(h => [h.temperatureC, h.visibilityM])).toEqual([[-25.1, null], [null, null]])
   })
 
   it.each([
@@ -126,6 +156,9 @@ describe('fetchHourlyForecast reply checks (stubbed fetch)', () => {
     ['temperature in °F', (r: ReturnType<typeof validReply>) => { r.hourly_units.temperature_2m = '°F' }],
     ['a non-UTC offset', (r: ReturnType<typeof validReply>) => { r.utc_offset_seconds = 3600 }],
     ['negative wind', (r: ReturnType<typeof validReply>) => { r.hourly.wind_speed_10m[0] = -3 }],
+    ['negative visibility', (r: ReturnType<typeof validReply>) => { r.hourly.visibility![0] = -1 }],
+    ['visibility in feet instead of metres', (r: ReturnType<typeof validReply>) => { r.hourly_units.visibility = 'ft' }],
+    ['a visibility array of another length', (r: ReturnType<typeof validReply>) => { r.hourly.visibility!.pop() }],
     ['times out of order', (r: ReturnType<typeof validReply>) => { r.hourly.time.reverse() }],
     ['an unreadable time', (r: ReturnType<typeof validReply>) => { r.hourly.time[0] = 'tomorrow' }],
     ['no hourly block', (r: ReturnType<typeof validReply>) => { delete (r as Partial<typeof r>).hourly }]

@@ -95,4 +95,41 @@ describe('readings from the field against the forecast', () => {
     ])
     expect(merged[1]!.visibilityM).toBe(200)
   })
+
+  it('a forecast hour with visibility exactly at a level\'s figure reaches it; 1 m above does not', () => {
+    const db = createTestDatabase()
+    const site = db.insert(sites).values({ name: 'Test Ridge', latitude: 74.5, longitude: 19, timezone: 'Arctic/Longyearbyen' }).returning().get()
+    // Wind and wind chill stay below every level (−5 °C, 10 km/h), so only visibility can reach one.
+    const at = (i: number) => new Date(T + i * H).toISOString()
+    const hours = [
+      { at: at(0), temperatureC: -5, windKmh: 10, gustKmh: null, visibilityM: 1001 },
+      { at: at(1), temperatureC: -5, windKmh: 10, gustKmh: null, visibilityM: 1000 },
+      { at: at(2), temperatureC: -5, windKmh: 10, gustKmh: null, visibilityM: 101 },
+      { at: at(3), temperatureC: -5, windKmh: 10, gustKmh: null, visibilityM: 100 }
+    ]
+    db.insert(forecasts).values({ siteId: site.id, source: 'test', status: 'ok', fetchedAt: new Date(T - 2 * H), hours }).run()
+    const merged = loadSiteHourlyWeather(db, site.id, T)
+    expect(merged.map(h => [h.source, h.visibilityM])).toEqual([['forecast', 1001], ['forecast', 1000], ['forecast', 101], ['forecast', 100]])
+    // 1001 m is 1 m above Amber's 1000 m: nothing reached in that hour alone
+    expect(evaluateWeatherHold(LEVELS, merged, T, T + H)).toBeNull()
+    expect(evaluateWeatherHold(LEVELS, merged, T, T + 2 * H)).toMatchObject({ level: 'Amber watch', atMs: T + H, cause: 'visibilityM', value: 1000, limit: 1000 })
+    // 101 m is 1 m above Red's 100 m: Amber only
+    expect(evaluateWeatherHold(LEVELS, merged, T + 2 * H, T + 3 * H)).toMatchObject({ level: 'Amber watch', cause: 'visibilityM', value: 101 })
+    expect(evaluateWeatherHold(LEVELS, merged, T + 2 * H, T + 4 * H)).toMatchObject({ level: 'Red stand-down', atMs: T + 3 * H, cause: 'visibilityM', value: 100, limit: 100 })
+  })
+
+  it('a newer reading\'s visibility replaces the forecast\'s for its hour; a forecast stored without visibility reads as none', () => {
+    const db = createTestDatabase()
+    const site = db.insert(sites).values({ name: 'Test Ridge', latitude: 74.5, longitude: 19, timezone: 'Arctic/Longyearbyen' }).returning().get()
+    const hours = [
+      { at: new Date(T).toISOString(), temperatureC: -5, windKmh: 10, gustKmh: null, visibilityM: 80 },
+      // stored before visibility was asked for: no visibilityM key at all
+      { at: new Date(T + H).toISOString(), temperatureC: -5, windKmh: 10, gustKmh: null }
+    ]
+    db.insert(forecasts).values({ siteId: site.id, source: 'test', status: 'ok', fetchedAt: new Date(T - 2 * H), hours }).run()
+    db.insert(observations).values({ siteId: site.id, at: new Date(T + 15 * 60_000), temperatureC: -5, windKmh: 10, visibilityM: 5000, source: 'manual', createdAt: new Date(T + 20 * 60_000) }).run()
+    const merged = loadSiteHourlyWeather(db, site.id, T + H)
+    expect(merged.map(h => [h.source, h.visibilityM])).toEqual([['reading', 5000], ['forecast', null]])
+    expect(evaluateWeatherHold(LEVELS, merged, T, T + 2 * H)).toBeNull()
+  })
 })
