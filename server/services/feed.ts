@@ -1,4 +1,4 @@
-// A person's private calendar feed (iCalendar, RFC 5545, written by ical-generator): their shifts with
+// A person's private calendar feed (iCalendar, RFC 5545, written by server/core/calendar/ical-writer.ts): their shifts with
 // site, light state and review, and optionally the sunrise and sunset at their sites.
 //
 // The feed URL carries a token. GET /api/me/feed must be able to show the URL again, but only a hash
