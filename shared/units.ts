@@ -1,5 +1,6 @@
 // Cold and wind figures in a person's units (metric: °C, km/h, m; imperial: °F, mph, ft). Stored and
-// computed figures are metric; these only convert for display. Pure: no imports.
+// computed figures are metric; these only convert for display. Pure.
+import { formatSigned } from './review'
 
 export type FigureUnits = 'metric' | 'imperial'
 
@@ -32,13 +33,10 @@ export const UNIT_SYMBOLS: Record<FigureUnits, { temperature: string, wind: stri
   imperial: { temperature: '°F', wind: 'mph', distance: 'ft' }
 }
 
-// a true minus sign, as elsewhere in the app
-const signed = (v: number) => String(Math.round(v)).replace('-', '−')
-
 /** `−28 °C` or `−18 °F`; an em dash for no value. */
 export function formatTemperature(celsius: number | null, units: FigureUnits): string {
   if (celsius === null) return '—'
-  return units === 'imperial' ? `${signed(toFahrenheit(celsius))} °F` : `${signed(celsius)} °C`
+  return units === 'imperial' ? `${formatSigned(toFahrenheit(celsius))} °F` : `${formatSigned(celsius)} °C`
 }
 
 /** `40 km/h` or `25 mph`; an em dash for no value. */
@@ -56,5 +54,5 @@ export function formatVisibility(metres: number | null, units: FigureUnits): str
 /** A site's elevation: `812 m` or `2664 ft`, below sea level with a true minus sign; em dash for none. */
 export function formatElevation(metres: number | null, units: FigureUnits): string {
   if (metres === null) return '—'
-  return units === 'imperial' ? `${signed(toFeet(metres))} ft` : `${signed(metres)} m`
+  return units === 'imperial' ? `${formatSigned(toFeet(metres))} ft` : `${formatSigned(metres)} m`
 }
