@@ -7,6 +7,7 @@ import { rotations, shifts, sites, type Rotation, type Shift, type Site } from '
 import type { AppDatabase } from '../utils/db'
 import { formatZonedIso } from '../core/time/zoned'
 import type { ReviewQueueItem } from '../core/review/queue'
+import { SupportedYearSchema } from '../../shared/schemas/calendar'
 
 /** The rotation as the API shows it. */
 export function describeRotation(row: Rotation, site: Pick<Site, 'name' | 'timezone'>) {
@@ -107,7 +108,7 @@ export function buildRotationQueueGroups(db: Pick<AppDatabase, 'select'>, groups
 
 export const SiteRotationsQuerySchema = z.object({
   siteId: z.coerce.number({ error: 'siteId must be a site id' }).int().positive('siteId must be a site id'),
-  year: z.coerce.number({ error: 'year must be a year' }).int().min(1901, 'year must be from 1901 to 2149').max(2149, 'year must be from 1901 to 2149')
+  year: SupportedYearSchema
 })
 
 /** The rotations planned at a site in a year, each with its live shifts (for the year chart). */

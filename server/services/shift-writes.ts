@@ -60,7 +60,9 @@ export function recordConflictOverride(tx: Pick<AppDatabase, 'insert'>, actorId:
 }
 
 function sameIds(a: number[], b: number[]) {
-  return a.length === b.length && [...a].sort().every((v, i) => v === [...b].sort()[i])
+  if (a.length !== b.length) return false
+  const sortedB = [...b].sort((x, y) => x - y)
+  return [...a].sort((x, y) => x - y).every((v, i) => v === sortedB[i])
 }
 
 /**

@@ -79,11 +79,6 @@ export function convertFahrenheitToCelsius(fahrenheit: number): number {
   return (fahrenheit - 32) * 5 / 9
 }
 
-/** Converts degrees Celsius to degrees Fahrenheit. */
-export function convertCelsiusToFahrenheit(celsius: number): number {
-  return celsius * 9 / 5 + 32
-}
-
 /** Converts miles per hour to kilometres per hour (international mile). */
 export function convertMphToKmh(mph: number): number {
   return mph * KMH_PER_MPH
