@@ -74,3 +74,15 @@ export interface ShiftWeatherHold {
   value: number
   limit: number
 }
+
+/** One of the operator's weather-hold levels (GET/PATCH /api/settings/holds); a figure left out is not part of it. */
+export interface HoldLevel {
+  name: string
+  /** Reached when the wind (10 m, km/h) is at or above it. */
+  windKmh?: number | null
+  /** Reached when the wind chill (°C) is at or below it. */
+  windChillC?: number | null
+  /** Reached when the visibility (m) is at or below it. */
+  visibilityM?: number | null
+  advice: string
+}

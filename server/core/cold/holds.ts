@@ -2,22 +2,13 @@
 // none), evaluated over the hours of a shift's outing. Common practice in polar programmes is a few
 // "conditions", each reached when any one of wind, wind chill or visibility reaches its figure, each
 // with its own travel rule (docs/references.md, "Work hours and people"). Pure: plain inputs and outputs.
+import type { HoldLevel } from '../../../shared/types/shift'
 import { computeWindChill } from './index'
 
 export const HOLD_CAUSES = ['windKmh', 'windChillC', 'visibilityM'] as const
 export type HoldCause = typeof HOLD_CAUSES[number]
 
-/** One of the operator's levels; a figure left out is not part of that level. */
-export interface HoldLevel {
-  name: string
-  /** Reached when the wind (10 m, km/h) is at or above it. */
-  windKmh?: number | null
-  /** Reached when the wind chill (°C) is at or below it. */
-  windChillC?: number | null
-  /** Reached when the visibility (m) is at or below it. */
-  visibilityM?: number | null
-  advice: string
-}
+export type { HoldLevel }
 
 /** One hour of weather at the site: null where the source has no figure. */
 export interface HoldHour {
