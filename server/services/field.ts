@@ -194,7 +194,7 @@ export function describeFieldState(row: LoadedOuting, a: PartyAssessment, nowMs:
   const expected = formatLocalTime(row.outing.expectedBackAt.getTime(), zone)
   const since = (ms: number) => formatDuration(Math.max(0, Math.floor((nowMs - ms) / MINUTE_MS)))
   if (a.state === 'back') return `${FIELD_STATE_WORDS.back} at ${formatLocalTime(row.outing.returnedAt!.getTime(), zone)}`
-  if (a.state === 'overdue') return `Overdue by ${since(row.outing.expectedBackAt.getTime())}: expected back ${expected}, not recorded back`
+  if (a.state === 'overdue') return `Overdue by ${since(row.outing.expectedBackAt.getTime())}: expected back ${expected}, no return recorded`
   if (a.state === 'check-in-missed') return `Check-in missed: alone, no word for ${since(row.lastCheckInMs ?? row.outing.departedAt.getTime())}`
   return `Out, expected back ${expected}`
 }
