@@ -4,7 +4,7 @@ import { formatSigned } from './review'
 
 export type FigureUnits = 'metric' | 'imperial'
 
-const KMH_PER_MPH = 1.609344
+export const KMH_PER_MPH = 1.609344
 const M_PER_FT = 0.3048
 
 /** °C → °F. */

@@ -204,6 +204,8 @@ export function assessShiftReview(db: Pick<AppDatabase, 'select'>, input: Review
     shiftEndMs: input.endMs,
     lightCheck: input.lightCheck,
     assigneeCount: input.assigneeCount,
+    // the bands of the window, already computed for the weather figures: the lone check counts from them
+    bands,
     cold,
     rules
   })

@@ -1,7 +1,7 @@
 // Cold-exposure figures: wind chill, frostbite band, and the 4-hour work/warm-up schedule.
-// A pure module (no framework imports): plain inputs, plain outputs. Nitro auto-imports every
-// export of server/utils, so names here are long and specific on purpose.
+// A pure module (no framework imports): plain inputs, plain outputs, imported explicitly.
 import { z } from 'zod'
+import { KMH_PER_MPH } from '../../../shared/units'
 import {
   COLD_CAUTIONS,
   COLD_INPUT_LIMITS,
@@ -20,7 +20,6 @@ import type {
   WindChillReason
 } from '../../../shared/cold'
 
-const KMH_PER_MPH = 1.609344
 // Inputs converted between units land a hair off a whole number (e.g. −15.000000000000002);
 // this tolerance keeps such values on the whole degree they stand for before rounding toward colder.
 const ROUNDING_EPSILON = 1e-9

@@ -4,6 +4,7 @@ import {
   BANDS_MEETING_REQUIREMENT,
   FLAG_MINUTES_BELOW,
   LIGHT_REQUIREMENT_KINDS,
+  type LightPeriodMs,
   type LightRequirement,
   type ShiftLightCheck
 } from '../../../shared/light'
@@ -45,11 +46,16 @@ export function checkShiftLight(input: ShiftLightInput): ShiftLightCheck & { che
   }
   const { fromMs, toMs } = computeOutingWindow(input.startMs, input.endMs, input.travelMinutes)
   const bands = computeLightPeriodsInRange(input.latitude, input.longitude, fromMs, toMs)
+  const minutesBelow = countMinutesBelowRequirement(bands, requirement)
+  return { requirement, minutesBelow, flagged: minutesBelow >= FLAG_MINUTES_BELOW, bands, checkedFromMs: fromMs, checkedToMs: toMs }
+}
+
+/** Whole minutes of the given bands in light below what the requirement needs (the total, rounded once). */
+export function countMinutesBelowRequirement(bands: LightPeriodMs[], requirement: LightRequirement): number {
   const meets = BANDS_MEETING_REQUIREMENT[requirement]
   let belowMs = 0
   for (const band of bands) {
     if (!meets.includes(band.kind)) belowMs += band.endMs - band.startMs
   }
-  const minutesBelow = Math.round(belowMs / 60_000)
-  return { requirement, minutesBelow, flagged: minutesBelow >= FLAG_MINUTES_BELOW, bands, checkedFromMs: fromMs, checkedToMs: toMs }
+  return Math.round(belowMs / 60_000)
 }

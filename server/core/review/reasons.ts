@@ -1,9 +1,9 @@
 // Why a shift goes to safety review (docs/api.md, "Review"): its light, the cold
 // it meets, one person alone in the dark, or its length. Pure TypeScript: no framework, database or
 // network imports; the shift services load the inputs and store the result on the shift.
-import type { LightRequirement } from '../../../shared/light'
+import type { LightPeriodMs, LightRequirement } from '../../../shared/light'
 import type { ReviewReasonDetail } from '../../../shared/review'
-import { checkShiftLight } from '../light/check'
+import { checkShiftLight, countMinutesBelowRequirement } from '../light/check'
 import type { ColdWindowFigures } from './queue'
 
 const MINUTE_MS = 60_000
@@ -25,6 +25,8 @@ export interface ReviewReasonInput {
   /** The stored light check of the shift (over the same window). */
   lightCheck: { flagged: boolean, minutesBelow: number, requirement: LightRequirement }
   assigneeCount: number
+  /** The light bands of the window when the caller has them already; computed here otherwise. */
+  bands?: LightPeriodMs[]
   /** Cold figures over the window: from the forecast, else the newest site readings; null when unknown. */
   cold: (Pick<ColdWindowFigures, 'worstWindChill' | 'warmup'> & { basis?: 'forecast' | 'observations' }) | null
   rules: { maxShiftHours: number, reviewWindChillC: number }
@@ -73,7 +75,9 @@ export function computeReviewReasons(input: ReviewReasonInput): ReviewReasonDeta
   // One person alone: any minute darker than civil twilight, whatever light the task itself needs
   // (a lit work area does not light the way to it, nor make a fall or a breakdown less lonely).
   if (input.assigneeCount === 1) {
-    const minutesDark = countMinutesBelowCivil(input.latitude, input.longitude, input.window)
+    const minutesDark = input.bands
+      ? countMinutesBelowRequirement(input.bands, 'civil')
+      : countMinutesBelowCivil(input.latitude, input.longitude, input.window)
     if (minutesDark >= 1) out.push({ reason: 'lone', minutesDark })
   }
   const minutes = Math.round((input.shiftEndMs - input.shiftStartMs) / MINUTE_MS)
